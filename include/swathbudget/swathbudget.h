@@ -1,0 +1,12 @@
+/* swathbudget — the whole public interface of libswathbudget. */
+#ifndef SWATHBUDGET_H
+#define SWATHBUDGET_H
+
+#include "swathbudget/error.h"
+#include "swathbudget/units.h"
+#include "swathbudget/ydoc.h"
+#include "swathbudget/orders.h"
+#include "swathbudget/horiz95.h"
+#include "swathbudget/writer.h"
+
+#endif

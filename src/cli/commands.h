@@ -1,0 +1,13 @@
+/* The commands of swathbudget: one cmd_NAME.c file each (see cli.h). */
+#ifndef SWATHBUDGET_COMMANDS_H
+#define SWATHBUDGET_COMMANDS_H
+
+#include <stdio.h>
+
+#define SB_DECLARE_COMMAND(name)                                              \
+    int cmd_##name(int argc, char **argv);                                    \
+    void cmd_##name##_help(FILE *f)
+
+SB_DECLARE_COMMAND(limits);
+
+#endif

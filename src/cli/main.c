@@ -1,0 +1,93 @@
+/*
+ * swathbudget — entry point: finds the command and hands it its arguments.
+ * Everything a command does lives in its own file src/cli/cmd_NAME.c.
+ */
+#include "config.h"
+
+#include <getopt.h>
+#include <stdio.h>
+#include <string.h>
+
+#include "cli.h"
+#include "commands.h"
+
+struct command {
+    const char *name;
+    int (*run)(int argc, char **argv);
+    void (*help)(FILE *f);
+    const char *summary;
+};
+
+static const struct command commands[] = {
+    {"limits", cmd_limits, cmd_limits_help,
+     "allowable TVU and THU of a standard's orders at given depths"},
+};
+
+#define N_COMMANDS (sizeof commands / sizeof commands[0])
+
+static const struct command *find(const char *name)
+{
+    for (size_t i = 0; i < N_COMMANDS; i++)
+        if (strcmp(commands[i].name, name) == 0)
+            return &commands[i];
+    return NULL;
+}
+
+static void overview(FILE *f)
+{
+    fprintf(f,
+            "swathbudget %s - a-priori uncertainty of multibeam soundings "
+            "against IHO S-44\n\n"
+            "usage: swathbudget COMMAND [OPTIONS] [FILES]\n"
+            "       swathbudget help COMMAND\n"
+            "       swathbudget --version\n\ncommands:\n",
+            PACKAGE_VERSION);
+    for (size_t i = 0; i < N_COMMANDS; i++)
+        fprintf(f, "  %-11s %s\n", commands[i].name, commands[i].summary);
+    fprintf(f, "\nThe figures are a-priori estimates, not proof of a survey's "
+               "quality: defer to the\nhydrographic authority's "
+               "specifications, local regulations and licensed practice.\n");
+}
+
+int main(int argc, char **argv)
+{
+    const struct command *c;
+
+    opterr = 0; /* commands print their own one-line usage errors */
+    if (argc < 2) {
+        overview(stderr);
+        return CLI_EXIT_INPUT;
+    }
+    if (strcmp(argv[1], "--version") == 0 || strcmp(argv[1], "version") == 0) {
+        printf("swathbudget %s\n", PACKAGE_VERSION);
+        return CLI_EXIT_OK;
+    }
+    if (strcmp(argv[1], "--help") == 0 || strcmp(argv[1], "-h") == 0) {
+        overview(stdout);
+        return CLI_EXIT_OK;
+    }
+    if (strcmp(argv[1], "help") == 0) {
+        if (argc < 3) {
+            overview(stdout);
+            return CLI_EXIT_OK;
+        }
+        c = find(argv[2]);
+        if (!c) {
+            fprintf(stderr, "swathbudget: unknown command '%s' (expected one "
+                            "of the commands listed by 'swathbudget help')\n",
+                    argv[2]);
+            return CLI_EXIT_INPUT;
+        }
+        c->help(stdout);
+        return CLI_EXIT_OK;
+    }
+    c = find(argv[1]);
+    if (!c) {
+        fprintf(stderr, "swathbudget: unknown command '%s' (expected one of "
+                        "the commands listed by 'swathbudget help')\n",
+                argv[1]);
+        return CLI_EXIT_INPUT;
+    }
+    optind = 1;
+    return c->run(argc - 1, argv + 1);
+}
