@@ -5,6 +5,7 @@
 #include "config.h"
 
 #include <getopt.h>
+#include <gsl/gsl_errno.h>
 #include <stdio.h>
 #include <string.h>
 
@@ -54,6 +55,9 @@ int main(int argc, char **argv)
     const struct command *c;
 
     opterr = 0; /* commands print their own one-line usage errors */
+    /* GSL aborts on an error by default; the library checks every status
+     * it gets back, so report instead of aborting. */
+    gsl_set_error_handler_off();
     if (argc < 2) {
         overview(stderr);
         return CLI_EXIT_INPUT;
