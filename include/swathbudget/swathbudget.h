@@ -7,6 +7,7 @@
 #include "swathbudget/ydoc.h"
 #include "swathbudget/orders.h"
 #include "swathbudget/horiz95.h"
+#include "swathbudget/raytrace.h"
 #include "swathbudget/writer.h"
 
 #endif
