@@ -1,0 +1,610 @@
+/*
+ * swathbudget plan — the usable swath of a survey system: for each order
+ * and depth, the beam angle from nadir, port and starboard, out to which
+ * every sounding meets the order's TVU and THU limits; with --angles also
+ * the TVU/THU grid.
+ *
+ *   swathbudget plan SYSTEM.yaml [--standard ID|FILE] [--order ID[,ID...]]
+ *                    [--depths START:STOP:STEP | --depth D[,D...]]
+ *                    [--angles START:STOP:STEP] [--thu-rule exact|s44]
+ *                    [--format table|csv|json]
+ */
+#include <getopt.h>
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+
+#include "cli.h"
+#include "commands.h"
+#include "swathbudget/georef.h"
+#include "swathbudget/horiz95.h"
+#include "swathbudget/orders.h"
+#include "swathbudget/propagate.h"
+#include "swathbudget/spec.h"
+#include "swathbudget/swath.h"
+#include "swathbudget/system.h"
+#include "swathbudget/writer.h"
+
+#define CMD "plan"
+#define MAX_DEPTHS 4096
+#define MAX_ANGLES 1801
+/* Keep a grid printable: more points than this is surely a typing error. */
+#define MAX_GRID 1000000
+#define DEPTH_MAX_M 12000.0
+#define JSON_DIGITS 10
+#define PI 3.14159265358979323846
+#define RAD2DEG (180.0 / PI)
+#define DEG2RAD (PI / 180.0)
+
+/* Depths used when none are given: the bands a harbour tender usually
+ * asks about (channel, approaches, anchorage), in metres. */
+static const double default_depths[] = {10.0, 20.0, 50.0, 100.0, 200.0};
+#define DEFAULT_DEPTHS_TEXT "10,20,50,100,200"
+
+void cmd_plan_help(FILE *f)
+{
+    fprintf(f,
+            "usage: swathbudget plan SYSTEM.yaml [--standard ID|FILE] "
+            "[--order ID[,ID...]]\n"
+            "                        [--depths START:STOP:STEP | --depth "
+            "D[,D...]]\n"
+            "                        [--angles START:STOP:STEP] "
+            "[--thu-rule exact|s44]\n"
+            "                        [--format table|csv|json]\n\n"
+            "For each order and depth, the beam angle from nadir, port and "
+            "starboard, out\nto which every sounding of the system meets the "
+            "order's TVU and THU limits\n(95 %%), the swath width this gives "
+            "on a flat seafloor, what ends it (tvu,\nthu, max_angle, or nadir "
+            "when even nadir fails) and the component that\ndominates there. "
+            "With --angles, also TVU and THU on the depth x angle grid.\n\n"
+            "options:\n"
+            "  --standard ID|FILE  compiled-in standard (default %s) or a "
+            "YAML file\n"
+            "  --order ID[,ID...]  orders to plan for (default: all of the "
+            "standard's)\n"
+            "  --depth D[,D...]    seafloor depths below the surface, m "
+            "(default %s)\n"
+            "  --depths A:B:S      depths from A to B inclusive in steps of "
+            "S metres\n"
+            "  --angles A:B:S      beam angles for the grid, deg, port "
+            "negative\n"
+            "  --thu-rule R        horizontal 95 %% figure compared with "
+            "THU: exact (the\n"
+            "                      exact 95 %% radius, default) or s44 "
+            "(2.45 x larger\n"
+            "                      semi-axis); both figures are printed\n"
+            "  --format F          table (default), csv or json; csv "
+            "prints the usable\n"
+            "                      table, then a blank line and the grid\n"
+            "  -h, --help          this text\n\n"
+            "System file format: docs/spec.md.  The figures are a-priori "
+            "estimates, not\nproof of a survey's quality: defer to the "
+            "hydrographic authority's\nspecifications, local regulations and "
+            "licensed practice.\n",
+            SB_STANDARD_DEFAULT_ID, DEFAULT_DEPTHS_TEXT);
+}
+
+/* Pick the orders named in arg (or all); usage error on an unknown one. */
+static int select_orders(const struct sb_standard *std, const char *arg,
+                         const struct sb_order **sel, size_t *n)
+{
+    char buf[1024], known[512];
+    const char *words[SB_STANDARD_ORDERS_MAX];
+    size_t nw, used = 0;
+    int rc;
+
+    if (!arg) {
+        for (int i = 0; i < std->n_orders; i++)
+            sel[i] = &std->orders[i];
+        *n = (size_t)std->n_orders;
+        return CLI_EXIT_OK;
+    }
+    rc = cli_split_words(CMD, "--order", arg, buf, sizeof buf, words,
+                         SB_STANDARD_ORDERS_MAX, &nw);
+    if (rc != CLI_EXIT_OK)
+        return rc;
+    known[0] = '\0';
+    for (int i = 0; i < std->n_orders && used < sizeof known; i++) {
+        int w = snprintf(known + used, sizeof known - used, "%s%s",
+                         i ? ", " : "", std->orders[i].id);
+        if (w < 0)
+            break;
+        used += (size_t)w;
+    }
+    for (size_t k = 0; k < nw; k++) {
+        sel[k] = sb_standard_order(std, words[k]);
+        if (!sel[k])
+            return cli_usage_error(CMD, "--order: unknown order '%s' in %s "
+                                        "(expected one of: %s)",
+                                   words[k], std->id, known);
+        for (size_t m = 0; m < k; m++)
+            if (sel[m] == sel[k])
+                return cli_usage_error(CMD, "--order: order '%s' named twice "
+                                            "(expected each order once)",
+                                       words[k]);
+    }
+    *n = nw;
+    return CLI_EXIT_OK;
+}
+
+/* A word that is neither a compiled-in id nor an existing file is most
+ * likely a mistyped id: a usage error, not an I/O failure. */
+static int check_standard_arg(const char *arg)
+{
+    const char *const *ids = sb_standard_builtin_ids();
+    char known[128] = "";
+    struct stat st;
+
+    if (!arg || sb_standard_builtin(arg))
+        return CLI_EXIT_OK;
+    for (size_t i = 0; ids[i]; i++) {
+        size_t used = strlen(known);
+
+        snprintf(known + used, sizeof known - used, "%s%s", ids[i],
+                 ids[i + 1] ? ", " : "");
+    }
+    if (stat(arg, &st) != 0 || S_ISDIR(st.st_mode))
+        return cli_usage_error(CMD, "--standard: '%s' is neither a "
+                                    "compiled-in standard nor an existing "
+                                    "file (expected %s or a YAML file)",
+                               arg, known);
+    return CLI_EXIT_OK;
+}
+
+/* One usable-swath row, with the uncertainty at the edge of the narrower
+ * half (so that both THU figures can be shown). */
+struct usable_row {
+    const struct sb_order *order;
+    struct sb_swath_result res;
+    const struct sb_swath_side *narrow; /* port or starboard of res */
+    struct sb_grid_point edge;          /* at the narrower side's angle */
+};
+
+static const char *dominant_name(const struct sb_swath_side *s)
+{
+    return s->dominant >= 0 ? sb_component_name(s->dominant) : NULL;
+}
+
+static int compute_usable(const struct sb_system *sys,
+                          const struct sb_horiz95 *h95,
+                          const struct sb_order *const *sel, size_t nsel,
+                          const double *depths, size_t nd, int rule,
+                          struct usable_row *rows, struct sb_error *err)
+{
+    for (size_t k = 0; k < nsel; k++)
+        for (size_t i = 0; i < nd; i++) {
+            struct usable_row *r = &rows[k * nd + i];
+            double a;
+            int rc;
+
+            r->order = sel[k];
+            rc = sb_swath_fail(sys, h95, depths[i],
+                               sb_order_tvu(sel[k], depths[i]),
+                               sb_order_thu(sel[k], depths[i]), rule,
+                               &r->res, err);
+            if (rc != SB_OK)
+                return rc;
+            /* the narrower half limits the swath; on a tie either will do */
+            r->narrow = r->res.port.across_m < r->res.starboard.across_m
+                            ? &r->res.port
+                            : &r->res.starboard;
+            a = r->narrow == &r->res.port ? -r->narrow->angle_rad
+                                          : r->narrow->angle_rad;
+            rc = sb_swath_grid(sys, h95, &depths[i], 1, &a, 1, &r->edge, err);
+            if (rc != SB_OK)
+                return rc;
+        }
+    return SB_OK;
+}
+
+static void json_side_angle(struct sb_json *j, const char *key,
+                            const struct sb_swath_side *s)
+{
+    sb_json_key(j, key);
+    if (s->reason == SB_SWATH_NADIR)
+        sb_json_null(j);
+    else
+        sb_json_number(j, s->angle_rad * RAD2DEG, JSON_DIGITS);
+}
+
+static int write_json(const struct sb_system *sys,
+                      const struct sb_standard *std,
+                      const struct usable_row *rows, size_t nrows,
+                      const double *depths, size_t nd, const double *angles,
+                      size_t na, const struct sb_grid_point *grid)
+{
+    struct sb_json j;
+    struct sb_error err;
+    int rc;
+
+    sb_json_init(&j, stdout);
+    sb_json_begin_object(&j);
+    sb_json_kv_string(&j, "system", sys->name);
+    sb_json_kv_string(&j, "standard", std->id);
+    sb_json_key(&j, "usable");
+    sb_json_begin_array(&j);
+    for (size_t r = 0; r < nrows; r++) {
+        const struct usable_row *u = &rows[r];
+        const char *dom = dominant_name(u->narrow);
+
+        sb_json_begin_object(&j);
+        sb_json_kv_string(&j, "order", u->order->id);
+        sb_json_kv_number(&j, "depth_m", u->res.depth_m, JSON_DIGITS);
+        json_side_angle(&j, "port_deg", &u->res.port);
+        json_side_angle(&j, "starboard_deg", &u->res.starboard);
+        sb_json_kv_number(&j, "swath_width_m", u->res.width_m, JSON_DIGITS);
+        sb_json_kv_string(&j, "limited_by",
+                          sb_swath_reason_name(u->narrow->reason));
+        if (u->res.port.reason != u->res.starboard.reason) {
+            sb_json_kv_string(&j, "limited_by_port",
+                              sb_swath_reason_name(u->res.port.reason));
+            sb_json_kv_string(&j, "limited_by_starboard",
+                              sb_swath_reason_name(u->res.starboard.reason));
+        }
+        sb_json_key(&j, "dominant");
+        if (dom)
+            sb_json_string(&j, dom);
+        else
+            sb_json_null(&j);
+        sb_json_end_object(&j);
+    }
+    sb_json_end_array(&j);
+    sb_json_key(&j, "grid");
+    sb_json_begin_array(&j);
+    for (size_t i = 0; i < nd; i++)
+        for (size_t a = 0; a < na; a++) {
+            const struct sb_grid_point *g = &grid[i * na + a];
+
+            sb_json_begin_object(&j);
+            sb_json_kv_number(&j, "depth_m", depths[i], JSON_DIGITS);
+            sb_json_kv_number(&j, "angle_deg", angles[a], JSON_DIGITS);
+            sb_json_kv_number(&j, "tvu_m", g->tvu95_m, JSON_DIGITS);
+            sb_json_kv_number(&j, "thu_m", g->thu95_m, JSON_DIGITS);
+            sb_json_kv_number(&j, "sigma_z_m", g->sigma_z_m, JSON_DIGITS);
+            sb_json_kv_number(&j, "thu_s44_m", g->thu95_s44_m, JSON_DIGITS);
+            sb_json_end_object(&j);
+        }
+    sb_json_end_array(&j);
+    sb_json_end_object(&j);
+    sb_error_clear(&err);
+    rc = sb_json_finish(&j, &err);
+    return rc == SB_OK ? CLI_EXIT_OK : cli_report(CMD, rc, &err);
+}
+
+static int table_fail(struct sb_table *t, int rc)
+{
+    struct sb_error err;
+
+    sb_table_free(t);
+    sb_error_set(&err, rc, "", 0, 0, "could not build the table (%s)",
+                 sb_strerror(rc));
+    return cli_report(CMD, rc, &err);
+}
+
+static int side_cell(struct sb_table *t, const struct sb_swath_side *s)
+{
+    return s->reason == SB_SWATH_NADIR ? sb_table_empty(t, "-")
+                                       : sb_table_num(t, s->angle_rad *
+                                                             RAD2DEG);
+}
+
+static int write_usable_table(const struct usable_row *rows, size_t nrows,
+                              enum sb_format fmt)
+{
+    static const struct sb_table_col cols[] = {
+        {"order", "order", 0},
+        {"depth (m)", "depth_m", 1},
+        {"port (deg)", "port_deg", 2},
+        {"starboard (deg)", "starboard_deg", 2},
+        {"swath width (m)", "swath_width_m", 1},
+        {"limited by", "limited_by", 0},
+        {"port by", "limited_by_port", 0},
+        {"stbd by", "limited_by_starboard", 0},
+        {"dominant", "dominant", 0},
+        {"TVU95 edge (m)", "tvu_edge_m", 3},
+        {"THU95 exact edge (m)", "thu_edge_m", 3},
+        {"THU95 S-44 edge (m)", "thu_s44_edge_m", 3},
+    };
+    struct sb_table *t = sb_table_alloc(cols, sizeof cols / sizeof cols[0]);
+    struct sb_error err;
+    int rc = SB_OK;
+
+    if (!t)
+        return table_fail(NULL, SB_ENOMEM);
+    for (size_t r = 0; r < nrows && rc == SB_OK; r++) {
+        const struct usable_row *u = &rows[r];
+        const char *dom = dominant_name(u->narrow);
+
+        if ((rc = sb_table_str(t, u->order->id)) ||
+            (rc = sb_table_num(t, u->res.depth_m)) ||
+            (rc = side_cell(t, &u->res.port)) ||
+            (rc = side_cell(t, &u->res.starboard)) ||
+            (rc = sb_table_num(t, u->res.width_m)) ||
+            (rc = sb_table_str(t, sb_swath_reason_name(u->narrow->reason))) ||
+            (rc = sb_table_str(t,
+                               sb_swath_reason_name(u->res.port.reason))) ||
+            (rc = sb_table_str(
+                 t, sb_swath_reason_name(u->res.starboard.reason))) ||
+            (rc = dom ? sb_table_str(t, dom) : sb_table_empty(t, "-")) ||
+            (rc = sb_table_num(t, u->edge.tvu95_m)) ||
+            (rc = sb_table_num(t, u->edge.thu95_m)) ||
+            (rc = sb_table_num(t, u->edge.thu95_s44_m)))
+            break;
+    }
+    if (rc != SB_OK)
+        return table_fail(t, rc);
+    sb_error_clear(&err);
+    rc = sb_table_write(t, stdout, fmt, &err);
+    sb_table_free(t);
+    return rc == SB_OK ? CLI_EXIT_OK : cli_report(CMD, rc, &err);
+}
+
+static int write_grid_table(const double *depths, size_t nd,
+                            const double *angles, size_t na,
+                            const struct sb_grid_point *grid,
+                            enum sb_format fmt)
+{
+    static const struct sb_table_col cols[] = {
+        {"depth (m)", "depth_m", 1},
+        {"angle (deg)", "angle_deg", 2},
+        {"TVU95 (m)", "tvu_m", 3},
+        {"THU95 exact (m)", "thu_m", 3},
+        {"sigma z (m)", "sigma_z_m", 4},
+        {"THU95 S-44 (m)", "thu_s44_m", 3},
+    };
+    struct sb_table *t = sb_table_alloc(cols, sizeof cols / sizeof cols[0]);
+    struct sb_error err;
+    int rc = SB_OK;
+
+    if (!t)
+        return table_fail(NULL, SB_ENOMEM);
+    for (size_t i = 0; i < nd && rc == SB_OK; i++)
+        for (size_t a = 0; a < na && rc == SB_OK; a++) {
+            const struct sb_grid_point *g = &grid[i * na + a];
+
+            if ((rc = sb_table_num(t, depths[i])) ||
+                (rc = sb_table_num(t, angles[a])) ||
+                (rc = sb_table_num(t, g->tvu95_m)) ||
+                (rc = sb_table_num(t, g->thu95_m)) ||
+                (rc = sb_table_num(t, g->sigma_z_m)) ||
+                (rc = sb_table_num(t, g->thu95_s44_m)))
+                break;
+        }
+    if (rc != SB_OK)
+        return table_fail(t, rc);
+    sb_error_clear(&err);
+    rc = sb_table_write(t, stdout, fmt, &err);
+    sb_table_free(t);
+    return rc == SB_OK ? CLI_EXIT_OK : cli_report(CMD, rc, &err);
+}
+
+static int write_text(const struct sb_system *sys,
+                      const struct sb_standard *std, int rule,
+                      const struct usable_row *rows, size_t nrows,
+                      const double *depths, size_t nd, const double *angles,
+                      size_t na, const struct sb_grid_point *grid,
+                      enum sb_format fmt)
+{
+    int rc;
+
+    if (fmt == SB_FORMAT_TABLE)
+        printf("system: %s%s%s\n"
+               "standard: %s (%s)\n"
+               "THU compared as: %s\n\n"
+               "Usable swath: beam angle from nadir out to which every "
+               "sounding meets the order\n(95 %%); '-' where nadir already "
+               "fails.  Edge figures are at the narrower side.\n\n",
+               sys->name, sys->title[0] ? " - " : "", sys->title, std->title,
+               std->id,
+               rule == SB_THU_S44 ? "2.45 x larger semi-axis (S-44 style)"
+                                  : "exact 95 % radius of the error ellipse");
+    rc = write_usable_table(rows, nrows, fmt);
+    if (rc != CLI_EXIT_OK)
+        return rc;
+    if (na > 0) {
+        if (fmt == SB_FORMAT_TABLE)
+            printf("\nTVU and THU (95 %%) on the grid; angles positive to "
+                   "starboard:\n\n");
+        else
+            printf("\n");
+        rc = write_grid_table(depths, nd, angles, na, grid, fmt);
+        if (rc != CLI_EXIT_OK)
+            return rc;
+    }
+    if (fmt == SB_FORMAT_TABLE)
+        printf("\nA-priori estimate from the stated figures, not proof of a "
+               "survey's quality;\ndefer to the hydrographic authority's "
+               "specifications, local regulations and\nlicensed practice.\n");
+    return CLI_EXIT_OK;
+}
+
+/* A system file that does not exist is a usage error (exit 2), like a
+ * mistyped option; one that exists but cannot be read is an I/O failure. */
+static int check_system_arg(const char *path)
+{
+    struct stat st;
+
+    if (stat(path, &st) != 0)
+        return cli_usage_error(CMD, "no such file '%s' (expected a system "
+                                    "YAML file, see docs/spec.md)",
+                               path);
+    if (S_ISDIR(st.st_mode))
+        return cli_usage_error(CMD, "'%s' is a directory (expected a system "
+                                    "YAML file)",
+                               path);
+    return CLI_EXIT_OK;
+}
+
+int cmd_plan(int argc, char **argv)
+{
+    enum {
+        OPT_STANDARD = 256,
+        OPT_ORDER,
+        OPT_DEPTH,
+        OPT_DEPTHS,
+        OPT_ANGLES,
+        OPT_THU_RULE,
+        OPT_FORMAT
+    };
+    static const struct option opts[] = {
+        {"standard", required_argument, NULL, OPT_STANDARD},
+        {"order", required_argument, NULL, OPT_ORDER},
+        {"depth", required_argument, NULL, OPT_DEPTH},
+        {"depths", required_argument, NULL, OPT_DEPTHS},
+        {"angles", required_argument, NULL, OPT_ANGLES},
+        {"thu-rule", required_argument, NULL, OPT_THU_RULE},
+        {"format", required_argument, NULL, OPT_FORMAT},
+        {"help", no_argument, NULL, 'h'},
+        {NULL, 0, NULL, 0},
+    };
+    static double depths[MAX_DEPTHS], angles[MAX_ANGLES];
+    const struct sb_order *sel[SB_STANDARD_ORDERS_MAX];
+    struct sb_standard storage;
+    const struct sb_standard *std = NULL;
+    const char *std_arg = NULL, *order_arg = NULL, *angles_arg = NULL;
+    const char *depth_opt = NULL, *depth_arg = NULL, *path;
+    enum sb_format fmt = SB_FORMAT_TABLE;
+    int rule = SB_THU_EXACT;
+    struct sb_system sys;
+    struct sb_error err;
+    struct sb_horiz95 *h95 = NULL;
+    struct usable_row *rows = NULL;
+    struct sb_grid_point *grid = NULL;
+    size_t nd = 0, na = 0, nsel = 0;
+    double tx_depth;
+    int c, rc;
+
+    optind = 1;
+    while ((c = getopt_long(argc, argv, ":h", opts, NULL)) != -1) {
+        switch (c) {
+        case OPT_STANDARD: std_arg = optarg; break;
+        case OPT_ORDER: order_arg = optarg; break;
+        case OPT_ANGLES: angles_arg = optarg; break;
+        case OPT_DEPTH:
+        case OPT_DEPTHS:
+            if (depth_opt)
+                return cli_usage_error(CMD, "%s given after %s (expected "
+                                            "one of --depth or --depths, "
+                                            "once)",
+                                       c == OPT_DEPTH ? "--depth" : "--depths",
+                                       depth_opt);
+            depth_opt = c == OPT_DEPTH ? "--depth" : "--depths";
+            depth_arg = optarg;
+            break;
+        case OPT_THU_RULE:
+            if (strcmp(optarg, "exact") == 0)
+                rule = SB_THU_EXACT;
+            else if (strcmp(optarg, "s44") == 0)
+                rule = SB_THU_S44;
+            else
+                return cli_usage_error(CMD, "--thu-rule: unknown rule '%s' "
+                                            "(expected exact or s44)",
+                                       optarg);
+            break;
+        case OPT_FORMAT:
+            if ((rc = cli_parse_format(CMD, optarg, &fmt)) != CLI_EXIT_OK)
+                return rc;
+            break;
+        case 'h':
+            cmd_plan_help(stdout);
+            return CLI_EXIT_OK;
+        default:
+            return cli_bad_option(CMD, argc, argv);
+        }
+    }
+    if (optind >= argc)
+        return cli_usage_error(CMD, "no system file given (expected "
+                                    "SYSTEM.yaml)");
+    if (optind + 1 < argc)
+        return cli_usage_error(CMD, "unexpected argument '%s' (expected one "
+                                    "system file)", argv[optind + 1]);
+    path = argv[optind];
+    if (!depth_opt) {
+        nd = sizeof default_depths / sizeof default_depths[0];
+        memcpy(depths, default_depths, sizeof default_depths);
+    } else if (strcmp(depth_opt, "--depth") == 0) {
+        rc = cli_parse_values(CMD, "--depth", depth_arg, 0.0, DEPTH_MAX_M, 1,
+                              depths, MAX_DEPTHS, &nd);
+        if (rc != CLI_EXIT_OK)
+            return rc;
+    } else {
+        rc = cli_parse_range(CMD, "--depths", depth_arg, 0.0, DEPTH_MAX_M, 1,
+                             depths, MAX_DEPTHS, &nd);
+        if (rc != CLI_EXIT_OK)
+            return rc;
+    }
+    if (angles_arg &&
+        (rc = cli_parse_range(CMD, "--angles", angles_arg, -90.0, 90.0, 0,
+                              angles, MAX_ANGLES, &na)) != CLI_EXIT_OK)
+        return rc;
+    if ((rc = check_standard_arg(std_arg)) != CLI_EXIT_OK)
+        return rc;
+
+    if ((rc = check_system_arg(path)) != CLI_EXIT_OK)
+        return rc;
+    sb_error_clear(&err);
+    if ((rc = sb_spec_load(path, &sys, &err)) != SB_OK)
+        return cli_report(CMD, rc, &err);
+    if ((rc = sb_standard_resolve(std_arg, &storage, &std, &err)) != SB_OK)
+        return cli_report(CMD, rc, &err);
+    if ((rc = select_orders(std, order_arg, sel, &nsel)) != CLI_EXIT_OK)
+        return rc;
+
+    /* options that only make sense against this system */
+    tx_depth = sys.vertical.draft + sys.vertical.squat + sys.vertical.loading;
+    for (size_t i = 0; i < nd; i++)
+        if (!(depths[i] > tx_depth))
+            return cli_usage_error(CMD, "depth %g m is not below the "
+                                        "transducer of %s (expected depths "
+                                        "greater than %g m)",
+                                   depths[i], sys.name, tx_depth);
+    for (size_t a = 0; a < na; a++)
+        if (fabs(angles[a]) * DEG2RAD > sys.echosounder.max_angle * (1 + 1e-12))
+            return cli_usage_error(CMD, "--angles: %g deg is beyond the "
+                                        "maximum beam angle of %s (expected "
+                                        "angles within +/-%g deg)",
+                                   angles[a], sys.name,
+                                   sys.echosounder.max_angle * RAD2DEG);
+    if (na > 0 && nd * na > MAX_GRID)
+        return cli_usage_error(CMD, "grid of %zu depths x %zu angles is too "
+                                    "large (expected at most %d points)",
+                               nd, na, MAX_GRID);
+
+    h95 = sb_horiz95_alloc(&err);
+    if (!h95)
+        return cli_report(CMD, SB_ENOMEM, &err);
+    rows = calloc(nsel * nd, sizeof *rows);
+    grid = na ? calloc(nd * na, sizeof *grid) : NULL;
+    if (!rows || (na && !grid)) {
+        sb_error_set(&err, SB_ENOMEM, "", 0, 0, "out of memory");
+        rc = cli_report(CMD, SB_ENOMEM, &err);
+        goto done;
+    }
+    {
+        double rad[MAX_ANGLES];
+
+        for (size_t a = 0; a < na; a++)
+            rad[a] = angles[a] * DEG2RAD;
+        rc = compute_usable(&sys, h95, sel, nsel, depths, nd, rule, rows,
+                            &err);
+        if (rc == SB_OK && na)
+            rc = sb_swath_grid(&sys, h95, depths, nd, rad, na, grid, &err);
+    }
+    if (rc != SB_OK) {
+        rc = cli_report(CMD, rc, &err);
+        goto done;
+    }
+    if (fmt == SB_FORMAT_JSON)
+        rc = write_json(&sys, std, rows, nsel * nd, depths, nd, angles, na,
+                        grid);
+    else
+        rc = write_text(&sys, std, rule, rows, nsel * nd, depths, nd, angles,
+                        na, grid, fmt);
+done:
+    free(grid);
+    free(rows);
+    sb_horiz95_free(h95);
+    return rc;
+}
