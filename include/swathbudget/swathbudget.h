@@ -8,6 +8,14 @@
 #include "swathbudget/orders.h"
 #include "swathbudget/horiz95.h"
 #include "swathbudget/raytrace.h"
+#include "swathbudget/soundspeed.h"
+#include "swathbudget/profile.h"
+#include "swathbudget/decimal.h"
+#include "swathbudget/system.h"
+#include "swathbudget/spec.h"
+#include "swathbudget/georef.h"
+#include "swathbudget/propagate.h"
+#include "swathbudget/swath.h"
 #include "swathbudget/writer.h"
 
 #endif

@@ -9,5 +9,9 @@
     void cmd_##name##_help(FILE *f)
 
 SB_DECLARE_COMMAND(limits);
+SB_DECLARE_COMMAND(plan);
+SB_DECLARE_COMMAND(breakdown);
+SB_DECLARE_COMMAND(soundspeed);
+SB_DECLARE_COMMAND(raytrace);
 
 #endif

@@ -22,6 +22,14 @@ struct command {
 static const struct command commands[] = {
     {"limits", cmd_limits, cmd_limits_help,
      "allowable TVU and THU of a standard's orders at given depths"},
+    {"plan", cmd_plan, cmd_plan_help,
+     "usable swath angle per order and depth, port and starboard"},
+    {"breakdown", cmd_breakdown, cmd_breakdown_help,
+     "each component's share of the uncertainty of one beam"},
+    {"soundspeed", cmd_soundspeed, cmd_soundspeed_help,
+     "sound velocity profile from a CTD cast, with a chosen equation"},
+    {"raytrace", cmd_raytrace, cmd_raytrace_help,
+     "travel time, offset and arrival angle of beams through a profile"},
 };
 
 #define N_COMMANDS (sizeof commands / sizeof commands[0])
