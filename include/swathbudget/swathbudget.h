@@ -16,6 +16,7 @@
 #include "swathbudget/georef.h"
 #include "swathbudget/propagate.h"
 #include "swathbudget/swath.h"
+#include "swathbudget/montecarlo.h"
 #include "swathbudget/writer.h"
 
 #endif

@@ -13,5 +13,6 @@ SB_DECLARE_COMMAND(plan);
 SB_DECLARE_COMMAND(breakdown);
 SB_DECLARE_COMMAND(soundspeed);
 SB_DECLARE_COMMAND(raytrace);
+SB_DECLARE_COMMAND(verify);
 
 #endif

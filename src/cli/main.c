@@ -30,6 +30,8 @@ static const struct command commands[] = {
      "sound velocity profile from a CTD cast, with a chosen equation"},
     {"raytrace", cmd_raytrace, cmd_raytrace_help,
      "travel time, offset and arrival angle of beams through a profile"},
+    {"verify", cmd_verify, cmd_verify_help,
+     "Monte Carlo check of the linear budget (JCGM 101)"},
 };
 
 #define N_COMMANDS (sizeof commands / sizeof commands[0])
