@@ -327,12 +327,11 @@ START_TEST(field_errors)
     /* a scalar where a section is expected */
     expect_variant(6, "positioning: 2 cm", 6, 14,
                    "positioning: found a single value (expected a mapping");
-    /* a profile is not accepted yet: only the constant model */
+    /* a profile model refuses the constant model's key */
     expect_variant(15,
                    "  water_column: {model: profile, nominal: 1490 m/s, "
                    "uncertainty: 1 m/s}",
-                   15, 25, "'profile' is not a known choice (expected one "
-                           "of: constant)");
+                   15, 34, "nominal: not used with model profile");
     /* sound speed outside (1300, 1800) m/s */
     expect_variant(14, "  transducer: {nominal: 1200 m/s, uncertainty: 1 m/s}",
                    14, 25, "sound_speed.transducer.nominal: '1200 m/s' is out "

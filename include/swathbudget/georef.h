@@ -28,6 +28,7 @@
 #define SWATHBUDGET_GEOREF_H
 
 #include "swathbudget/error.h"
+#include "swathbudget/refraction.h"
 #include "swathbudget/system.h"
 #include "swathbudget/units.h"
 
@@ -71,6 +72,9 @@ enum sb_component {
     /* sound speed */
     SB_COMP_SURFACE_SS,        /* "surface_sound_speed" m/s at the transducer */
     SB_COMP_COLUMN_SS,         /* "sound_speed_column" 1   relative (scale - 1) */
+    /* refraction: the spread of the casts of one survey (casts model) */
+    SB_COMP_REFRACTION,        /* "refraction"         1   standardised
+                                  (u = 1; the sensitivity is the spread) */
     /* echosounder */
     SB_COMP_RANGE,             /* "range"              m   slant range */
     SB_COMP_POINTING,          /* "beam_pointing"      rad across-track */
@@ -93,6 +97,7 @@ enum sb_group {
     SB_GROUP_LATENCY,         /* "latency" */
     SB_GROUP_ALIGNMENT,       /* "alignment" */
     SB_GROUP_SOUND_SPEED,     /* "sound_speed" */
+    SB_GROUP_REFRACTION,      /* "refraction" */
     SB_GROUP_ECHOSOUNDER,     /* "echosounder" */
     SB_GROUP_VERTICAL_REF,    /* "vertical_reference" */
     SB_GROUP_COUNT
@@ -100,9 +105,11 @@ enum sb_group {
 
 /*
  * Per-beam state: everything the error function needs, precomputed by
- * sb_beam_setup for one (depth, angle).  Plain data, fixed size, no
- * pointers into the system (it stays valid if the system is freed).
- * Public fields a caller may read are marked; the rest is private.
+ * sb_beam_setup for one (depth, angle).  Plain data, fixed size (a few
+ * KiB), no allocation.  With a constant column it holds no pointer into the
+ * system; with a profile it points at the system's profiles (read-only), so
+ * the system must outlive the beam.  Public fields a caller may read are
+ * marked; the rest is private.
  */
 struct sb_beam {
     /* -- public, read-only -- */
@@ -113,7 +120,8 @@ struct sb_beam {
     double true_enz[3];  /* true sounding: E, N relative to the reference
                             point's nominal position, Z below datum, m */
     double across_m;     /* across-track distance of the sounding from the
-                            transducer, m (signed, starboard > 0) */
+                            transducer, m (signed, starboard > 0); traced
+                            through the profile when there is one */
     double u[SB_COMP_COUNT];          /* standard uncertainty of each
                                          component (unit as in the enum) */
     enum sb_dist dist[SB_COMP_COUNT]; /* its distribution (Monte Carlo) */
@@ -134,6 +142,22 @@ struct sb_beam {
     double lev_h[3];     /* antenna -> transducer offset (vessel frame), m */
     double lev_v[3];     /* vertical reference point -> transducer, m */
     double m[3][3];      /* rotation at the effective (RMS) attitude */
+
+    /* profile (refr != NULL): the nominal ray, traced */
+    const struct sb_refraction *refr;
+    struct sb_svp_start st; /* start of the rays in the reference profile */
+    double c_t;          /* reference speed at the transducer, m/s */
+    double p0;           /* |Snell parameter| of the true ray, s/m */
+    double ray_w;        /* w of the exact trace at t_oneway (dx = 0) */
+    double lin_zq, lin_zt, lin_wq, lin_wt; /* ray derivatives (linear
+                            model): dz/dq, dz/dt, dw/dq, dw/dt at the seafloor */
+    double w0;           /* w at the seafloor (planning direction) */
+    struct sb_svp_cursor cur; /* depth cursor of the nominal ray */
+    struct sb_svp_cursor tcur; /* time cursor of its exact trace */
+    double refr_e[3];    /* E, N, Z per unit of SB_COMP_REFRACTION, m */
+    size_t n_casts;
+    struct sb_svp_start cast_st[SB_CASTS_MAX];
+    struct sb_svp_cursor cast_cur[SB_CASTS_MAX];
 };
 
 /*
@@ -143,19 +167,36 @@ struct sb_beam {
  * for every component, its standard uncertainty (from the system's stated
  * figures, the beam-pointing model and the operating conditions) and
  * distribution.  The system must have passed sb_system_validate.
- * Returns SB_OK, or SB_EINPUT (non-finite depth or angle, |angle| above the
- * maximum beam angle, seafloor not below the transducer) with err->msg
- * filled (no position).  Allocation-free; err may be NULL.
+ * Returns SB_OK, SB_EINPUT (non-finite depth or angle, |angle| above the
+ * maximum beam angle, seafloor not below the transducer) or SB_RAY_TURNS
+ * (with a profile: the ray of this angle turns before it reaches the
+ * seafloor -- a defined outcome, not an input error; *b must not be used)
+ * with err->msg filled (no position).  Allocation-free; err may be NULL.
  */
 int sb_beam_setup(const struct sb_system *sys, double depth_m,
                   double angle_rad, struct sb_beam *b, struct sb_error *err);
 
+/* Status of sb_beam_setup / sb_beam_redepth for a ray that turns above the
+ * seafloor (equal to SB_ENUM, which they return for no other reason). */
+#define SB_RAY_TURNS SB_ENUM
+
+/*
+ * Largest |beam angle| (rad) whose ray reaches depth_m (m below the
+ * surface) without turning: asin(c_t / c_max) with c_t the reference
+ * profile's speed at the transducer and c_max its largest speed between the
+ * transducer and the seafloor; pi/2 for a constant column or when no speed
+ * there exceeds c_t.  For depth_m not below the transducer, pi/2.
+ */
+double sb_beam_turn_angle(const struct sb_system *sys, double depth_m);
+
 /*
  * Move a set-up beam to another depth (m, seafloor below the surface),
  * keeping everything that depends only on the angle and the system: the
- * cheap way to walk a column of depths at one angle.  Same result as
- * sb_beam_setup at the new depth.  Returns SB_OK, or SB_EINPUT (depth not
- * finite or not below the transducer; *b unchanged).  Allocation-free.
+ * cheap way to walk a column of depths at one angle (with a profile the
+ * ray is walked on from the previous depth when the new one is deeper).
+ * Same result as sb_beam_setup at the new depth.  Returns SB_OK, SB_EINPUT
+ * (depth not finite or not below the transducer) or SB_RAY_TURNS; *b is
+ * unchanged on error.  Allocation-free.
  */
 int sb_beam_redepth(struct sb_beam *b, double depth_m, struct sb_error *err);
 
@@ -184,6 +225,14 @@ void sb_georef_error(const struct sb_beam *b, const double *dx,
 #define SB_PART_LEVER 2u
 #define SB_PART_ADD 4u
 #define SB_PART_ALL 7u
+/* Flag for sb_georef_error_parts: with a profile, take the ray from its
+ * first-order expansion about the nominal ray in (Snell parameter, time)
+ * instead of re-tracing it.  Its value and first derivatives at dx = 0 are
+ * those of the exact model, so central differences give the same Jacobian
+ * up to O(h^2) (the Jacobian's own truncation order) at the cost of a few
+ * multiplications; never use it for Monte Carlo.  No effect with a
+ * constant column (the straight ray is exact and cheap). */
+#define SB_PART_LINEAR 8u
 void sb_georef_error_parts(const struct sb_beam *b, const double *dx,
                            unsigned parts, double err_enz[3]);
 /* Bit mask of SB_PART_* fed by component c (0 out of range). */

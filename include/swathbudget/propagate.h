@@ -69,7 +69,8 @@ struct sb_breakdown {
 
 /*
  * Sensitivities of the sounding error to every component by central
- * differences of sb_georef_error: j[i] = d(E, N, Z)/dx_i.  The step is
+ * differences of sb_georef_error (with a profile, of its SB_PART_LINEAR
+ * form: same derivatives, no re-tracing): j[i] = d(E, N, Z)/dx_i.  The step is
  * SB_JAC_STEP * u_i, or for u_i = 0 a small fixed step in the component's
  * unit (1e-6 m, 1e-7 rad, 1e-6 s, 1e-3 m/s, 1e-7 relative), so that every
  * sensitivity is available.  Allocation-free.

@@ -38,8 +38,12 @@ enum sb_swath_reason {
     SB_SWATH_TVU = 0,      /* "tvu": TVU95 reaches its limit first */
     SB_SWATH_THU = 1,      /* "thu": THU95 reaches its limit first */
     SB_SWATH_NADIR = 2,    /* "nadir": the limit(s) already fail at nadir */
-    SB_SWATH_MAX_ANGLE = 3 /* "max_angle": both limits hold out to the
+    SB_SWATH_MAX_ANGLE = 3, /* "max_angle": both limits hold out to the
                               system's maximum beam angle */
+    SB_SWATH_RAY_TURNS = 4  /* "ray_turns": both limits hold out to the
+                              angle beyond which the ray, refracted by the
+                              profile, turns before it reaches the seafloor
+                              (sb_beam_turn_angle); the side ends there */
 };
 
 /* Which limit(s) are exceeded (bit mask). */
@@ -57,7 +61,8 @@ struct sb_swath_side {
                           when the two cross within the tolerance; NONE for
                           "max_angle") */
     double angle_rad;  /* |fail angle|, rad: 0 for "nadir", the maximum beam
-                          angle for "max_angle" */
+                          angle for "max_angle", just inside the turning
+                          angle (by SB_SWATH_ANGLE_TOL_RAD) for "ray_turns" */
     double across_m;   /* |across-track distance| of the sounding at that
                           angle from the transducer on the flat seafloor, m */
     double tvu95_m;    /* TVU95 at that angle, m */
@@ -100,7 +105,7 @@ int sb_swath_fail(const struct sb_system *sys, const struct sb_horiz95 *h95,
                   int thu_rule, struct sb_swath_result *out,
                   struct sb_error *err);
 
-/* "tvu", "thu", "nadir", "max_angle"; "?" out of range. */
+/* "tvu", "thu", "nadir", "max_angle", "ray_turns"; "?" out of range. */
 const char *sb_swath_reason_name(int reason);
 /* "none", "tvu", "thu", "tvu+thu"; "?" out of range. */
 const char *sb_swath_limit_name(int failing);
@@ -111,6 +116,9 @@ struct sb_grid_point {
     double thu95_m;     /* exact 95 % radius, m (NAN without a table) */
     double thu95_s44_m; /* 2.45 sigma_max, m */
     double sigma_z_m;   /* m */
+    int ray_turns;      /* 1: the ray of this angle turns before it reaches
+                           this depth (profile); no sounding, the four
+                           figures are then INFINITY */
 };
 
 /*
@@ -118,8 +126,10 @@ struct sb_grid_point {
  * i_angle].  depths_m: seafloor depths (m); angles_rad: beam angles (rad,
  * port negative, within the system's maximum).  h95 may be NULL (thu95_m =
  * NAN).  The loop runs angle-outer so that the per-angle part of the beam
- * set-up is done once per angle.  Returns SB_OK, SB_EINPUT (a bad depth or
- * angle; the message names it) or SB_ENUM.  Allocation-free.
+ * set-up is done once per angle.  A point whose ray turns above the
+ * seafloor is marked (ray_turns) and does not stop the grid.  Returns
+ * SB_OK, SB_EINPUT (a bad depth or angle; the message names it) or SB_ENUM
+ * (a non-finite uncertainty).  Allocation-free.
  */
 int sb_swath_grid(const struct sb_system *sys, const struct sb_horiz95 *h95,
                   const double *depths_m, size_t n_depths,

@@ -26,6 +26,8 @@
 #ifndef SWATHBUDGET_SYSTEM_H
 #define SWATHBUDGET_SYSTEM_H
 
+#include <stddef.h>
+
 #include "swathbudget/error.h"
 #include "swathbudget/units.h"
 
@@ -113,9 +115,19 @@ struct sb_motion {
     struct sb_stated align_heading;
 };
 
-/* Sound speed.  For now the water column is one constant speed; a measured
- * profile with ray tracing replaces it later (the engine keeps the medium
- * behind a small interface, see georef.h). */
+/* How the water column's sound speed is described. */
+enum sb_column_model {
+    SB_COLUMN_CONSTANT = 0, /* one speed, straight rays */
+    SB_COLUMN_PROFILE = 1,  /* one measured profile, traced */
+    SB_COLUMN_CASTS = 2     /* several casts: the reference (their mean or
+                               one of them) is traced, their spread is the
+                               "refraction" component */
+};
+
+struct sb_refraction; /* refraction.h */
+
+/* Sound speed: one constant speed for the water column, or a measured
+ * profile (or casts) traced ray by ray (docs/model.md, "Refraction"). */
 struct sb_sound_speed {
     /* speed at the transducer face (m/s) and the uncertainty of its
      * measurement (speed, m/s, or ratio of the speed); it steers the beams
@@ -126,6 +138,13 @@ struct sb_sound_speed {
      * (speed, m/s, or ratio of the speed) */
     double column;
     struct sb_stated column_u;
+    /* SB_COLUMN_PROFILE / SB_COLUMN_CASTS: the profile(s), owned by the
+     * system (sb_system_release frees them); column is then the depth
+     * average of the reference profile, used to turn a relative figure
+     * into m/s and back and to express a range error as a time.  NULL for
+     * SB_COLUMN_CONSTANT. */
+    enum sb_column_model model;
+    struct sb_refraction *refraction;
 };
 
 /* The multibeam echosounder. */
@@ -148,6 +167,17 @@ struct sb_echosounder {
     struct sb_stated pointing;
     double max_angle;     /* largest beam angle the system forms, rad,
                              in (0, pi/2) */
+    /* beam layout and ping rate, for the sounding density of feature
+     * detection (density.h); beams == 0 when the file does not state them,
+     * and then no density limit is evaluated */
+    int beams;            /* soundings per ping across the swath, 0 or
+                             2..100000 */
+    int beam_spacing;     /* 0 equiangular, 1 equidistant (the values of
+                             enum sb_beam_spacing in density.h) */
+    double ping_overhead; /* s added to the two-way travel time to the
+                             outermost beam between pings, >= 0 */
+    double feature_soundings; /* N: soundings a feature must receive,
+                             > 0 (default 3, common practice) */
 };
 
 /* Vertical reference: transducer depth and water level. */
@@ -210,7 +240,8 @@ struct sb_system {
  *   sound speed surface = column = 1500 m/s;
  *   echosounder: frequency 0 Hz, beam widths 1 deg across and along, flat
  *     array, range given (0 m), sample_rate 0 Hz, pulse_length 0 s,
- *     pointing 0 (ratio), max_angle 75 deg;
+ *     pointing 0 (ratio), max_angle 75 deg, beams 0 (not stated),
+ *     equiangular spacing, ping_overhead 0 s, feature_soundings 3;
  *   vertical: tide method, draft/squat/loading 0 m;
  *   conditions: speed 0, no roll/pitch/heave (amplitudes 0; periods 8 s
  *     roll, 6 s pitch, 6 s heave so that a loader that fills only an
@@ -221,8 +252,43 @@ void sb_system_init_defaults(struct sb_system *sys);
 
 /* Allocate a system filled with the defaults; NULL if out of memory. */
 struct sb_system *sb_system_alloc(void);
-/* Free a system from sb_system_alloc (NULL is fine). */
+/* Free a system from sb_system_alloc and what it owns (NULL is fine). */
 void sb_system_free(struct sb_system *sys);
+/* Free what a system owns (its profiles) without freeing the struct, for a
+ * system on the stack filled by sb_spec_load; the column becomes constant
+ * again.  A shallow copy of a system (struct assignment) shares the
+ * profiles: release only one of them.  NULL is fine. */
+void sb_system_release(struct sb_system *sys);
+
+/*
+ * Give the system a measured profile (copied): sample depths depth_m (m
+ * below the surface, strictly increasing, >= 0) and speeds speed_mps (m/s,
+ * each in (1300, 1800)), n from 1 to SB_SVP_MAX_SAMPLES.  Sets model
+ * SB_COLUMN_PROFILE and column = the profile's depth-averaged speed; frees
+ * a previous profile.  column_u keeps its meaning (uniform error of the
+ * profile, absolute or relative).  Errors: SB_EINPUT (message names the
+ * sample, no position), SB_ENOMEM; the system is unchanged on error.
+ */
+int sb_system_set_profile(struct sb_system *sys, const double *depth_m,
+                          const double *speed_mps, size_t n,
+                          struct sb_error *err);
+
+/*
+ * The same with n_casts casts (2..SB_CASTS_MAX) of one survey: model
+ * SB_COLUMN_CASTS, the reference being their mean (SB_REFERENCE_MEAN) or
+ * cast number `reference` (0-based).  Errors as above ("cast K sample I").
+ */
+int sb_system_set_casts(struct sb_system *sys, const double *const *depth_m,
+                        const double *const *speed_mps, const size_t *n,
+                        size_t n_casts, int reference, struct sb_error *err);
+
+/* One line describing the water column for reports, e.g. "measured
+ * profile casts/x.csv, 42 samples, traced (mean 1493.2 m/s)" or "4 casts,
+ * reference their mean (118 samples), traced; their spread is the
+ * refraction component"; "constant 1490.0 m/s" for a constant column.
+ * Written into buf (n bytes); returns buf. */
+const char *sb_system_describe_column(const struct sb_system *sys, char *buf,
+                                      size_t n);
 
 /*
  * Cross-field checks of a filled system: every nominal value finite; every

@@ -174,6 +174,11 @@ static int write_text(const struct sb_system *sys, const struct sb_beam *b,
                sys->name, sys->title[0] ? " - " : "", sys->title, b->depth_m,
                b->depth_tx_m, b->angle_rad * RAD2DEG,
                b->angle_rad < 0 ? "port" : "starboard", b->across_m);
+    if (fmt == SB_FORMAT_TABLE && sys->sound_speed.model != SB_COLUMN_CONSTANT) {
+        char wc[256];
+
+        printf("water column: %s\n\n", sb_system_describe_column(sys, wc, sizeof wc));
+    }
     sb_error_clear(&err);
     rc = sb_table_write(tab, stdout, fmt, &err);
     sb_table_free(tab);
@@ -237,6 +242,9 @@ static int check_system_arg(const char *path)
     return CLI_EXIT_OK;
 }
 
+static int breakdown_loaded(const struct sb_system *psys, double depth, double angle,
+                            enum sb_format fmt);
+
 int cmd_breakdown(int argc, char **argv)
 {
     enum { OPT_DEPTH = 256, OPT_ANGLE, OPT_FORMAT };
@@ -251,13 +259,7 @@ int cmd_breakdown(int argc, char **argv)
     enum sb_format fmt = SB_FORMAT_TABLE;
     struct sb_system sys;
     struct sb_error err;
-    struct sb_beam beam;
-    struct sb_tpu tpu;
-    struct sb_breakdown bd;
-    struct sb_horiz95 *h95;
-    struct line lines[SB_COMP_COUNT];
-    size_t n = 0;
-    double depth, angle, tx_depth;
+    double depth, angle;
     int c, rc;
 
     optind = 1;
@@ -298,6 +300,26 @@ int cmd_breakdown(int argc, char **argv)
     sb_error_clear(&err);
     if ((rc = sb_spec_load(argv[optind], &sys, &err)) != SB_OK)
         return cli_report(CMD, rc, &err);
+    rc = breakdown_loaded(&sys, depth, angle, fmt);
+    sb_system_release(&sys); /* the profile(s) it owns */
+    return rc;
+}
+
+/* The rest of cmd_breakdown, once the system is loaded. */
+static int breakdown_loaded(const struct sb_system *psys, double depth, double angle,
+                            enum sb_format fmt)
+{
+    const struct sb_system sys = *psys; /* shallow: psys keeps ownership */
+    struct sb_error err;
+    struct sb_beam beam;
+    struct sb_horiz95 *h95;
+    struct sb_tpu tpu;
+    struct sb_breakdown bd;
+    struct line lines[SB_COMP_COUNT];
+    size_t n = 0;
+    double tx_depth;
+    int rc;
+
     tx_depth = sys.vertical.draft + sys.vertical.squat + sys.vertical.loading;
     if (!(depth > tx_depth))
         return cli_usage_error(CMD, "--depth: %g m is not below the "
@@ -310,8 +332,10 @@ int cmd_breakdown(int argc, char **argv)
                                     "within +/-%g deg)",
                                angle, sys.name,
                                sys.echosounder.max_angle * RAD2DEG);
-    if ((rc = sb_beam_setup(&sys, depth, angle * DEG2RAD, &beam, &err)) !=
-        SB_OK)
+    rc = sb_beam_setup(&sys, depth, angle * DEG2RAD, &beam, &err);
+    if (rc == SB_RAY_TURNS) /* no sounding there: the ray turns above it */
+        return cli_usage_error(CMD, "--angle: %s", err.msg);
+    if (rc != SB_OK)
         return cli_report(CMD, rc, &err);
     h95 = sb_horiz95_alloc(&err);
     if (!h95)

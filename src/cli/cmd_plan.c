@@ -260,6 +260,17 @@ static int write_json(const struct sb_system *sys,
             sb_json_begin_object(&j);
             sb_json_kv_number(&j, "depth_m", depths[i], JSON_DIGITS);
             sb_json_kv_number(&j, "angle_deg", angles[a], JSON_DIGITS);
+            if (g->ray_turns) {
+                /* the ray turns above the seafloor: no sounding */
+                static const char *const k[] = {"tvu_m", "thu_m", "sigma_z_m", "thu_s44_m"};
+                for (int q = 0; q < 4; q++) {
+                    sb_json_key(&j, k[q]);
+                    sb_json_null(&j);
+                }
+                sb_json_kv_string(&j, "note", "ray_turns");
+                sb_json_end_object(&j);
+                continue;
+            }
             sb_json_kv_number(&j, "tvu_m", g->tvu95_m, JSON_DIGITS);
             sb_json_kv_number(&j, "thu_m", g->thu95_m, JSON_DIGITS);
             sb_json_kv_number(&j, "sigma_z_m", g->sigma_z_m, JSON_DIGITS);
@@ -364,6 +375,14 @@ static int write_grid_table(const double *depths, size_t nd,
         for (size_t a = 0; a < na && rc == SB_OK; a++) {
             const struct sb_grid_point *g = &grid[i * na + a];
 
+            if (g->ray_turns) { /* no sounding: the ray turns above it */
+                if ((rc = sb_table_num(t, depths[i])) ||
+                    (rc = sb_table_num(t, angles[a])))
+                    break;
+                for (int q = 0; q < 4 && rc == SB_OK; q++)
+                    rc = sb_table_empty(t, q ? "-" : "ray turns");
+                continue;
+            }
             if ((rc = sb_table_num(t, depths[i])) ||
                 (rc = sb_table_num(t, angles[a])) ||
                 (rc = sb_table_num(t, g->tvu95_m)) ||
@@ -389,15 +408,22 @@ static int write_text(const struct sb_system *sys,
 {
     int rc;
 
+    if (fmt == SB_FORMAT_TABLE) {
+        char wc[256];
+
+        printf("system: %s%s%s\n", sys->name, sys->title[0] ? " - " : "",
+               sys->title);
+        if (sys->sound_speed.model != SB_COLUMN_CONSTANT)
+            printf("water column: %s\n",
+                   sb_system_describe_column(sys, wc, sizeof wc));
+    }
     if (fmt == SB_FORMAT_TABLE)
-        printf("system: %s%s%s\n"
-               "standard: %s (%s)\n"
+        printf("standard: %s (%s)\n"
                "THU compared as: %s\n\n"
                "Usable swath: beam angle from nadir out to which every "
                "sounding meets the order\n(95 %%); '-' where nadir already "
                "fails.  Edge figures are at the narrower side.\n\n",
-               sys->name, sys->title[0] ? " - " : "", sys->title, std->title,
-               std->id,
+               std->title, std->id,
                rule == SB_THU_S44 ? "2.45 x larger semi-axis (S-44 style)"
                                   : "exact 95 % radius of the error ellipse");
     rc = write_usable_table(rows, nrows, fmt);
@@ -547,34 +573,44 @@ int cmd_plan(int argc, char **argv)
     sb_error_clear(&err);
     if ((rc = sb_spec_load(path, &sys, &err)) != SB_OK)
         return cli_report(CMD, rc, &err);
-    if ((rc = sb_standard_resolve(std_arg, &storage, &std, &err)) != SB_OK)
-        return cli_report(CMD, rc, &err);
+    if ((rc = sb_standard_resolve(std_arg, &storage, &std, &err)) != SB_OK) {
+        rc = cli_report(CMD, rc, &err);
+        goto done;
+    }
     if ((rc = select_orders(std, order_arg, sel, &nsel)) != CLI_EXIT_OK)
-        return rc;
+        goto done;
 
     /* options that only make sense against this system */
     tx_depth = sys.vertical.draft + sys.vertical.squat + sys.vertical.loading;
     for (size_t i = 0; i < nd; i++)
-        if (!(depths[i] > tx_depth))
-            return cli_usage_error(CMD, "depth %g m is not below the "
-                                        "transducer of %s (expected depths "
-                                        "greater than %g m)",
-                                   depths[i], sys.name, tx_depth);
+        if (!(depths[i] > tx_depth)) {
+            rc = cli_usage_error(CMD, "depth %g m is not below the "
+                                      "transducer of %s (expected depths "
+                                      "greater than %g m)",
+                                 depths[i], sys.name, tx_depth);
+            goto done;
+        }
     for (size_t a = 0; a < na; a++)
-        if (fabs(angles[a]) * DEG2RAD > sys.echosounder.max_angle * (1 + 1e-12))
-            return cli_usage_error(CMD, "--angles: %g deg is beyond the "
-                                        "maximum beam angle of %s (expected "
-                                        "angles within +/-%g deg)",
-                                   angles[a], sys.name,
-                                   sys.echosounder.max_angle * RAD2DEG);
-    if (na > 0 && nd * na > MAX_GRID)
-        return cli_usage_error(CMD, "grid of %zu depths x %zu angles is too "
-                                    "large (expected at most %d points)",
-                               nd, na, MAX_GRID);
+        if (fabs(angles[a]) * DEG2RAD > sys.echosounder.max_angle * (1 + 1e-12)) {
+            rc = cli_usage_error(CMD, "--angles: %g deg is beyond the "
+                                      "maximum beam angle of %s (expected "
+                                      "angles within +/-%g deg)",
+                                 angles[a], sys.name,
+                                 sys.echosounder.max_angle * RAD2DEG);
+            goto done;
+        }
+    if (na > 0 && nd * na > MAX_GRID) {
+        rc = cli_usage_error(CMD, "grid of %zu depths x %zu angles is too "
+                                  "large (expected at most %d points)",
+                             nd, na, MAX_GRID);
+        goto done;
+    }
 
     h95 = sb_horiz95_alloc(&err);
-    if (!h95)
-        return cli_report(CMD, SB_ENOMEM, &err);
+    if (!h95) {
+        rc = cli_report(CMD, SB_ENOMEM, &err);
+        goto done;
+    }
     rows = calloc(nsel * nd, sizeof *rows);
     grid = na ? calloc(nd * na, sizeof *grid) : NULL;
     if (!rows || (na && !grid)) {
@@ -606,5 +642,6 @@ done:
     free(grid);
     free(rows);
     sb_horiz95_free(h95);
+    sb_system_release(&sys); /* the profile(s) it owns */
     return rc;
 }

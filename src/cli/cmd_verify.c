@@ -506,10 +506,12 @@ int cmd_verify(int argc, char **argv)
     sb_error_clear(&err);
     if ((rc = sb_spec_load(path, &sys, &err)) != SB_OK)
         return cli_report(CMD, rc, &err);
-    if ((rc = sb_standard_resolve(std_arg, &storage, &std, &err)) != SB_OK)
-        return cli_report(CMD, rc, &err);
+    if ((rc = sb_standard_resolve(std_arg, &storage, &std, &err)) != SB_OK) {
+        rc = cli_report(CMD, rc, &err);
+        goto done;
+    }
     if ((rc = select_orders(std, order_arg, sel, &nsel)) != CLI_EXIT_OK)
-        return rc;
+        goto done;
 
     /* checks that need the system */
     const double max_deg = sys.echosounder.max_angle * RAD2DEG;
@@ -522,28 +524,35 @@ int cmd_verify(int argc, char **argv)
     const double tx_depth =
         sys.vertical.draft + sys.vertical.squat + sys.vertical.loading;
     for (size_t i = 0; i < nd; i++)
-        if (!(depths[i] > tx_depth))
-            return cli_usage_error(CMD, "--depth: %g m is not below the "
-                                        "transducer of %s (expected depths "
-                                        "greater than %g m)",
-                                   depths[i], sys.name, tx_depth);
+        if (!(depths[i] > tx_depth)) {
+            rc = cli_usage_error(CMD, "--depth: %g m is not below the "
+                                      "transducer of %s (expected depths "
+                                      "greater than %g m)",
+                                 depths[i], sys.name, tx_depth);
+            goto done;
+        }
     for (size_t a = 0; a < na; a++) {
-        if (fabs(angles[a]) > max_deg * (1 + 1e-12))
-            return cli_usage_error(CMD, "--angles: %g deg is beyond the "
-                                        "maximum beam angle of %s (expected "
-                                        "angles within +/-%g deg)",
-                                   angles[a], sys.name, max_deg);
+        if (fabs(angles[a]) > max_deg * (1 + 1e-12)) {
+            rc = cli_usage_error(CMD, "--angles: %g deg is beyond the "
+                                      "maximum beam angle of %s (expected "
+                                      "angles within +/-%g deg)",
+                                 angles[a], sys.name, max_deg);
+            goto done;
+        }
         rad[a] = angles[a] * DEG2RAD;
     }
-    if (nd * na > MAX_POINTS)
-        return cli_usage_error(CMD, "%zu depths x %zu angles is too many "
-                                    "points (expected at most %d)",
-                               nd, na, MAX_POINTS);
+    if (nd * na > MAX_POINTS) {
+        rc = cli_usage_error(CMD, "%zu depths x %zu angles is too many "
+                                  "points (expected at most %d)",
+                             nd, na, MAX_POINTS);
+        goto done;
+    }
 
     pts = calloc(nd * na, sizeof *pts);
     if (!pts) {
         sb_error_set(&err, SB_ENOMEM, "", 0, 0, "out of memory");
-        return cli_report(CMD, SB_ENOMEM, &err);
+        rc = cli_report(CMD, SB_ENOMEM, &err);
+        goto done;
     }
     rc = sb_mc_verify_points(&sys, depths, nd, rad, na, &o, pts, &err);
     if (rc != SB_OK) {
@@ -563,5 +572,6 @@ int cmd_verify(int argc, char **argv)
         rc = write_text(&sys, std, sel, nsel, pts, depths, nd, na, &o, fmt);
 done:
     free(pts);
+    sb_system_release(&sys); /* the profile(s) it owns */
     return rc;
 }

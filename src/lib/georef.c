@@ -66,6 +66,7 @@ static const struct comp_info COMP[SB_COMP_COUNT] = {
     [SB_COMP_ALIGN_HEADING] = { "align_heading", SB_GROUP_ALIGNMENT, "rad" },
     [SB_COMP_SURFACE_SS] = { "surface_sound_speed", SB_GROUP_SOUND_SPEED, "m/s" },
     [SB_COMP_COLUMN_SS] = { "sound_speed_column", SB_GROUP_SOUND_SPEED, "1" },
+    [SB_COMP_REFRACTION] = { "refraction", SB_GROUP_REFRACTION, "1" },
     [SB_COMP_RANGE] = { "range", SB_GROUP_ECHOSOUNDER, "m" },
     [SB_COMP_POINTING] = { "beam_pointing", SB_GROUP_ECHOSOUNDER, "rad" },
     [SB_COMP_POINTING_ALONG] = { "beam_pointing_along", SB_GROUP_ECHOSOUNDER, "rad" },
@@ -84,6 +85,7 @@ static const char *const GROUP[SB_GROUP_COUNT] = {
     [SB_GROUP_LATENCY] = "latency",
     [SB_GROUP_ALIGNMENT] = "alignment",
     [SB_GROUP_SOUND_SPEED] = "sound_speed",
+    [SB_GROUP_REFRACTION] = "refraction",
     [SB_GROUP_ECHOSOUNDER] = "echosounder",
     [SB_GROUP_VERTICAL_REF] = "vertical_reference",
 };
@@ -125,6 +127,7 @@ int sb_component_lookup(const char *name)
 
 /* ---- the water column ---------------------------------------------------
  *
+ * Constant column (b->refr == NULL).
  * The georeferencing sees the water column through two functions only:
  *   medium_time_to_depth  (setup, true geometry): one-way time to reach the
  *                         depth below the transducer;
@@ -156,6 +159,39 @@ static inline void medium_ray(const struct sb_beam *b, double cos_g, double scal
     double r = b->c_col * scale * t; /* straight ray: slant range */
     *z = r * cos_g;
     *hq = r;
+}
+
+/* Measured profile (b->refr != NULL), docs/model.md "Refraction".
+ *
+ * The true ray leaves the transducer at the beam angle theta in the water of
+ * the reference profile there (speed c_t): Snell parameter p0 = sin(theta) /
+ * c_t.  The processing takes the REPORTED launch direction (roll, pointing,
+ * alignment, and for a flat array the steering by the transducer probe) in
+ * the same water: p = sin(gamma) / c_t, gamma the angle of the launch
+ * vector from the vertical; it traces the measured travel time through the
+ * profile scaled by (1 + dx[COLUMN_SS]) below the transducer with p held
+ * (the transducer's own speed is known).  In the unscaled profile that is
+ * the ray q = p s after the time s t (refraction.h). */
+
+/* Exact: depth below the transducer and horizontal distance / sin(gamma)
+ * of the ray with |Snell parameter| p (s/m), scale s, one-way time t. */
+static inline void profile_ray(const struct sb_beam *b, double p, double s, double t,
+                               double *z, double *hq)
+{
+    double zz, w;
+    (void)sb_svp_at_time(&b->refr->ref, &b->st, p * s, s * t, NULL, &zz, &w);
+    *z = zz - b->z_tx;
+    *hq = s * w / b->c_t; /* x / sin(gamma) = (p s w) / (p c_t) */
+}
+
+/* First-order expansion of the same about the nominal ray (SB_PART_LINEAR):
+ * the ray's derivatives in q and in the unscaled time (set_depth). */
+static inline void profile_ray_lin(const struct sb_beam *b, double p, double s, double t,
+                                   double *dz, double *hq)
+{
+    const double dq = p * s - b->p0, dtau = s * t - b->t_oneway_s;
+    *dz = b->lin_zq * dq + b->lin_zt * dtau; /* change of depth */
+    *hq = s * (b->w0 + b->lin_wq * dq + b->lin_wt * dtau) / b->c_t;
 }
 
 /* ---- small-angle sine and cosine ----------------------------------------
@@ -198,6 +234,78 @@ static double rms_rate(double amplitude, double period)
     return amplitude * (2.0 * SB_PI / period) / sqrt(2.0);
 }
 
+/* Sensitivity of the refraction component: the spread of the soundings
+ * each cast gives for the true travel time against the reference
+ * (docs/model.md, "Cast variability").  With the mean as reference every
+ * cast counts and one degree of freedom goes to the mean; with one cast as
+ * reference the others count: both divide by n - 1. */
+static void cast_spread(struct sb_beam *b, const struct sb_svp_cursor *cur_in,
+                        struct sb_svp_cursor *cur_out)
+{
+    const struct sb_refraction *r = b->refr;
+    double sz = 0.0, se = 0.0, sze = 0.0;
+    const double z_true = b->depth_m, x_scale = b->sin_t / b->c_t;
+    for (size_t k = 0; k < b->n_casts; k++) {
+        cur_out[k] = cur_in[k];
+        if ((int)k == r->reference)
+            continue;
+        double zk, wk;
+        (void)sb_svp_at_time(&r->casts[k], &b->cast_st[k], b->p0, b->t_oneway_s,
+                             &cur_out[k], &zk, &wk);
+        const double ez = zk - z_true, ee = (wk - b->w0) * x_scale;
+        sz += ez * ez;
+        se += ee * ee;
+        sze += ez * ee;
+    }
+    const double inv = 1.0 / (double)(b->n_casts - 1);
+    b->refr_e[0] = (sze < 0.0 ? -1.0 : 1.0) * sqrt(se * inv);
+    b->refr_e[1] = 0.0; /* a level vessel: the casts move the sounding in the
+                           plane of the beam */
+    b->refr_e[2] = sqrt(sz * inv);
+}
+
+/* The depth-dependent part of the set-up with a profile.  Leaves *b
+ * unchanged and returns SB_RAY_TURNS when the ray turns above the seafloor. */
+static int set_depth_profile(struct sb_beam *b, double depth_m, struct sb_error *err)
+{
+    const double d_tx = depth_m - b->z_tx;
+    struct sb_svp_cursor cur = b->cur;
+    struct sb_svp_point pt;
+    if (sb_svp_to_depth(&b->refr->ref, &b->st, b->p0, depth_m, &cur, &pt) != SB_OK)
+        return sb_error_set(err, SB_RAY_TURNS, "", 0, 0,
+                            "the ray of beam angle %.6g deg turns before it reaches the "
+                            "seafloor at %.6g m (a beam angle within %.6g deg)",
+                            b->angle_rad * 180.0 / SB_PI, depth_m,
+                            sb_svp_turn_angle(&b->refr->ref, &b->st, depth_m) * 180.0 / SB_PI);
+    b->cur = cur;
+    b->depth_m = depth_m;
+    b->depth_tx_m = d_tx;
+    b->t_oneway_s = pt.t;
+    b->w0 = pt.w;
+    /* derivatives at fixed time (docs/model.md): z_q = -T_q / T_z with
+     * T_q = q X_q and 1/T_z = c cos; w_q = (dw/dq)_z - c^2 q X_q;
+     * z_t = c cos; w_t = c^2 */
+    const double cc = pt.c * pt.co;
+    b->lin_zq = -b->p0 * pt.xq * cc;
+    b->lin_zt = cc;
+    b->lin_wq = pt.wq - pt.c * pt.c * b->p0 * pt.xq;
+    b->lin_wt = pt.c * pt.c;
+    b->across_m = b->p0 * pt.w * (b->sin_t < 0.0 ? -1.0 : 1.0);
+    /* the exact trace back from the time, by the arithmetic of the hot path
+     * (the cursor only skips the layers above, whose sums it holds bit for
+     * bit as a walk from the transducer would), so that dx = 0 gives
+     * exactly 0 */
+    double zz, w;
+    (void)sb_svp_at_time(&b->refr->ref, &b->st, b->p0, b->t_oneway_s, &b->tcur, &zz, &w);
+    b->ray_z = zz - b->z_tx;
+    b->ray_y = w / b->c_t * b->sin_t;
+    b->true_enz[0] = b->y_tx + b->across_m;
+    b->true_enz[2] = depth_m;
+    if (b->n_casts)
+        cast_spread(b, b->cast_cur, b->cast_cur);
+    return SB_OK;
+}
+
 /* The depth-dependent part of the set-up (true ray and travel time). */
 static void set_depth(struct sb_beam *b, double depth_m)
 {
@@ -220,8 +328,22 @@ int sb_beam_redepth(struct sb_beam *b, double depth_m, struct sb_error *err)
         return sb_error_set(err, SB_EINPUT, "", 0, 0,
                             "depth %.6g m is not below the transducer (a finite depth greater "
                             "than draft + squat + loading = %.6g m)", depth_m, b->z_tx);
+    if (b->refr)
+        return set_depth_profile(b, depth_m, err);
     set_depth(b, depth_m);
     return SB_OK;
+}
+
+double sb_beam_turn_angle(const struct sb_system *sys, double depth_m)
+{
+    const struct sb_refraction *r = sys->sound_speed.refraction;
+    const struct sb_vertical_ref *v = &sys->vertical;
+    const double z_tx = v->draft + v->squat + v->loading;
+    if (sys->sound_speed.model == SB_COLUMN_CONSTANT || !r || !(depth_m > z_tx))
+        return 0.5 * SB_PI;
+    struct sb_svp_start st;
+    sb_svp_start_at(&r->ref, z_tx, &st);
+    return sb_svp_turn_angle(&r->ref, &st, depth_m);
 }
 
 static enum sb_dist dist_of(const struct sb_stated *s)
@@ -260,7 +382,22 @@ int sb_beam_setup(const struct sb_system *sys, double depth_m, double angle_rad,
     b->c_col = sys->sound_speed.column;
     b->inv_c0 = 1.0 / sys->sound_speed.surface;
     b->inv_c_col = 1.0 / sys->sound_speed.column;
-    set_depth(b, depth_m);
+    if (sys->sound_speed.model != SB_COLUMN_CONSTANT && sys->sound_speed.refraction) {
+        const struct sb_refraction *r = sys->sound_speed.refraction;
+        b->refr = r;
+        sb_svp_start_at(&r->ref, z_tx, &b->st);
+        b->c_t = b->st.c_t;
+        b->p0 = fabs(b->sin_t) / b->c_t;
+        b->n_casts = r->n_casts;
+        for (size_t k = 0; k < r->n_casts; k++)
+            sb_svp_start_at(&r->casts[k], z_tx, &b->cast_st[k]);
+        /* cursors are zero from the memset: at the transducer */
+        int rc = set_depth_profile(b, depth_m, err);
+        if (rc)
+            return rc;
+    } else {
+        set_depth(b, depth_m);
+    }
     b->true_enz[1] = sys->transducer.x;
 
     const struct sb_conditions *cd = &sys->conditions;
@@ -329,6 +466,9 @@ int sb_beam_setup(const struct sb_system *sys, double depth_m, double angle_rad,
     dist[SB_COMP_SURFACE_SS] = dist_of(&ss->surface_u);
     u[SB_COMP_COLUMN_SS] = sb_system_abs_u(&ss->column_u, ss->column) / ss->column;
     dist[SB_COMP_COLUMN_SS] = dist_of(&ss->column_u);
+    /* the casts' spread enters as a standardised deviate: u = 1, its
+     * effect per unit is the spread itself (b->refr_e) */
+    u[SB_COMP_REFRACTION] = b->n_casts ? 1.0 : 0.0;
 
     const struct sb_echosounder *es = &sys->echosounder;
     if (es->range_mode == SB_RANGE_SAMPLING) {
@@ -385,8 +525,8 @@ static inline double att_pitch(const struct sb_beam *b, const double *dx)
 }
 
 /* Part 1: the beam and the ray, from the transducer to the seafloor.
- * Writes e (E, N, Z). */
-static inline void part_beam(const struct sb_beam *b, const double *dx, double e[3])
+ * Writes e (E, N, Z).  lin: SB_PART_LINEAR (profile only). */
+static inline void part_beam(const struct sb_beam *b, const double *dx, int lin, double e[3])
 {
     const double dr = att_roll(b, dx), dp = att_pitch(b, dx), dh = dx[SB_COMP_HEADING];
     /* The true beam leaves at theta from the vertical (level vessel: the
@@ -426,6 +566,26 @@ static inline void part_beam(const struct sb_beam *b, const double *dx, double e
     /* the ray, with the measured travel time and column speed */
     const double tm = b->t_oneway_s + dx[SB_COMP_RANGE] * b->inv_c_col;
     double zr, hq;
+    if (b->refr) {
+        /* Snell parameter of the reported launch direction: sin(gamma) is
+         * the length of its horizontal part */
+        const double p = sqrt(l0 * l0 + l1 * l1) / b->c_t;
+        const double sc = 1.0 + dx[SB_COMP_COLUMN_SS];
+        if (lin) {
+            double dz;
+            profile_ray_lin(b, p, sc, tm, &dz, &hq);
+            zr = b->ray_z + dz;
+        } else {
+            profile_ray(b, p, sc, tm, &zr, &hq);
+        }
+        const double r = dx[SB_COMP_REFRACTION];
+        /* the linear model's own baseline, so that dx = 0 gives 0 in both */
+        const double y0 = lin ? b->w0 / b->c_t * b->sin_t : b->ray_y;
+        e[0] = hq * l1 - y0 + r * b->refr_e[0];
+        e[1] = hq * l0 + r * b->refr_e[1];
+        e[2] = zr - b->ray_z + r * b->refr_e[2];
+        return;
+    }
     medium_ray(b, l2, 1.0 + dx[SB_COMP_COLUMN_SS], tm, &zr, &hq);
     /* minus the true ray, computed by the same arithmetic in setup so that
      * dx = 0 gives exactly 0 */
@@ -492,7 +652,7 @@ static inline void part_add(const struct sb_beam *b, const double *dx, double e[
 
 void sb_georef_error(const struct sb_beam *b, const double *dx, double e[3])
 {
-    part_beam(b, dx, e);
+    part_beam(b, dx, 0, e);
     part_lever(b, dx, e);
     part_add(b, dx, e);
 }
@@ -501,7 +661,7 @@ void sb_georef_error_parts(const struct sb_beam *b, const double *dx, unsigned p
                            double e[3])
 {
     if (parts & SB_PART_BEAM) {
-        part_beam(b, dx, e);
+        part_beam(b, dx, (parts & SB_PART_LINEAR) != 0, e);
     } else {
         e[0] = e[1] = e[2] = 0.0;
     }
@@ -518,7 +678,8 @@ unsigned sb_component_parts(int c)
     case SB_COMP_LATENCY_ROLL: case SB_COMP_LATENCY_PITCH:
         return SB_PART_BEAM | SB_PART_LEVER;
     case SB_COMP_ALIGN_ROLL: case SB_COMP_ALIGN_PITCH: case SB_COMP_ALIGN_HEADING:
-    case SB_COMP_SURFACE_SS: case SB_COMP_COLUMN_SS: case SB_COMP_RANGE:
+    case SB_COMP_SURFACE_SS: case SB_COMP_COLUMN_SS: case SB_COMP_REFRACTION:
+    case SB_COMP_RANGE:
     case SB_COMP_POINTING: case SB_COMP_POINTING_ALONG:
         return SB_PART_BEAM;
     case SB_COMP_LEVER_ANT_X: case SB_COMP_LEVER_ANT_Y: case SB_COMP_LEVER_ANT_Z:

@@ -42,8 +42,11 @@ static inline void central(const struct sb_beam *b, double *dx, int c, double h,
 {
     double ep[3], em[3];
     /* only the parts of the model that component c feeds: the others are
-     * unchanged and cancel in the difference (georef.h) */
-    const unsigned parts = sb_component_parts(c);
+     * unchanged and cancel in the difference (georef.h); with a profile the
+     * ray comes from its first-order expansion about the nominal ray, which
+     * has the same derivatives as the exact trace and costs no tracing
+     * (SB_PART_LINEAR, georef.h) */
+    const unsigned parts = sb_component_parts(c) | SB_PART_LINEAR;
     dx[c] = h;
     sb_georef_error_parts(b, dx, parts, ep);
     dx[c] = -h;

@@ -9,8 +9,12 @@
  */
 #include "swathbudget/spec.h"
 
+#include "swathbudget/profile.h"
+#include "swathbudget/refraction.h"
+
 #include <math.h>
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
 
 #define SPEC_PI 3.14159265358979323846
@@ -361,18 +365,151 @@ static int read_speed(struct loader *ld, const struct sb_ynode *m,
     return SB_OK;
 }
 
+/* ---- measured profiles (water_column model profile / casts) ---- */
+
+/* Resolve a file named in the spec relative to the spec file's directory
+ * (an absolute name is kept).  Returns 0 if it does not fit. */
+static int resolve_path(const struct loader *ld, const char *name, char *out,
+                        size_t n)
+{
+    const char *doc = sb_ydoc_name(ld->doc);
+    const char *slash = strrchr(doc, '/');
+    int w;
+
+    if (name[0] == '/' || !slash)
+        w = snprintf(out, n, "%s", name);
+    else
+        w = snprintf(out, n, "%.*s/%s", (int)(slash - doc + 1) - 1, doc,
+                     name);
+    return w >= 0 && (size_t)w < n;
+}
+
+/* Load one profile file named by the scalar node fn (what = YAML path).
+ * Errors inside the file keep the file's own position; a file that cannot
+ * be read is reported at fn. */
+static int load_profile_file(struct loader *ld, const struct sb_ynode *fn,
+                             const char *what, struct sb_profile **out)
+{
+    char path[SB_ERROR_FILE_MAX];
+    const char *name;
+    int rc;
+
+    *out = NULL;
+    if ((rc = sb_ynode_string(ld->doc, fn, what, &name, ld->err)))
+        return rc;
+    if (!resolve_path(ld, name, path, sizeof path))
+        return sb_ydoc_error(ld->doc, fn, ld->err,
+                             "%s: file name too long (expected at most %d "
+                             "characters with the spec file's directory)",
+                             what, SB_ERROR_FILE_MAX - 1);
+    rc = sb_profile_load(path, -1, NAN, out, ld->err);
+    if (rc == SB_EIO) {
+        char msg[SB_ERROR_MSG_MAX];
+
+        snprintf(msg, sizeof msg, "%s", ld->err ? ld->err->msg : "");
+        return sb_ydoc_error(ld->doc, fn, ld->err, "%s: %s", what, msg);
+    }
+    return rc;
+}
+
+/* samples: {depth_m: [...], speed_m_s: [...]} -> a checked profile. */
+static int read_samples(struct loader *ld, const struct sb_ynode *sn,
+                        const char *spath, struct sb_profile **out)
+{
+    static const char *const keys[] = {"depth_m", "speed_m_s", NULL};
+    const struct sb_ynode *col[2];
+    char cpath[2][PATH_MAX_LEN];
+    double *v[2] = {NULL, NULL};
+    size_t i, k, n = 0;
+    int rc;
+
+    *out = NULL;
+    if ((rc = sb_ynode_expect_map(ld->doc, sn, spath, ld->err)) ||
+        (rc = sb_ymap_check_keys(ld->doc, sn, spath, keys, ld->err)))
+        return rc;
+    for (k = 0; k < 2; k++) {
+        join(cpath[k], spath, keys[k]);
+        if ((rc = sb_ymap_require(ld->doc, sn, keys[k], spath, &col[k],
+                                  ld->err)) ||
+            (rc = sb_ynode_expect_seq(ld->doc, col[k], cpath[k], ld->err)))
+            return rc;
+    }
+    n = col[0]->n;
+    if (col[1]->n != n)
+        return sb_ydoc_error(ld->doc, col[1], ld->err,
+                             "%s: %zu speeds for %zu depths (expected one "
+                             "speed per depth)",
+                             cpath[1], col[1]->n, n);
+    if (n < SB_PROFILE_MIN_SAMPLES)
+        return sb_ydoc_error(ld->doc, col[0], ld->err,
+                             "%s: %zu samples (expected at least %d)",
+                             cpath[0], n, SB_PROFILE_MIN_SAMPLES);
+    v[0] = malloc(n * sizeof *v[0]);
+    v[1] = malloc(n * sizeof *v[1]);
+    if (!v[0] || !v[1]) {
+        rc = sb_error_set(ld->err, SB_ENOMEM, "", 0, 0, "out of memory");
+        goto done;
+    }
+    for (k = 0; k < 2; k++)
+        for (i = 0; i < n; i++)
+            if ((rc = sb_ynode_double(ld->doc, col[k]->items[i], cpath[k],
+                                      &v[k][i], ld->err)))
+                goto done;
+    rc = sb_profile_from_pairs(v[0], v[1], n, out, ld->err);
+    if (rc == SB_EINPUT) {
+        /* "sample N: ..." -> at that depth (or speed) item */
+        size_t bad = 0;
+        char msg[SB_ERROR_MSG_MAX];
+        int speed = ld->err && strstr(ld->err->msg, "speed") != NULL;
+
+        snprintf(msg, sizeof msg, "%s", ld->err ? ld->err->msg : "");
+        if (sscanf(msg, "sample %zu", &bad) != 1 || bad < 1 || bad > n)
+            bad = 1;
+        rc = sb_ydoc_error(ld->doc, col[speed]->items[bad - 1], ld->err,
+                           "%s: %s", spath, msg);
+    }
+done:
+    free(v[0]);
+    free(v[1]);
+    return rc;
+}
+
+/* A key that the chosen model does not use is refused, at the key. */
+static int refuse_keys(struct loader *ld, const struct sb_ynode *m,
+                       const char *path, const char *const *keys,
+                       const char *model, const char *expected)
+{
+    for (size_t j = 0; j < m->n; j++)
+        for (size_t i = 0; keys[i]; i++)
+            if (strcmp(m->keys[j], keys[i]) == 0)
+                return sb_ydoc_error(ld->doc, m->key_nodes[j], ld->err,
+                                     "%s.%s: not used with model %s "
+                                     "(expected %s)",
+                                     path, keys[i], model, expected);
+    return SB_OK;
+}
+
 static int read_sound_speed(struct loader *ld, const struct sb_ynode *root)
 {
-    static const char *const keys[] = {"transducer", "water_column", NULL};
+    static const char *const keys[] = {"transducer", "water_column", "casts",
+                                       NULL};
     static const char *const tkeys[] = {"nominal", "uncertainty", NULL};
-    /* "model" leaves room for a measured profile (casts); only the
-     * constant model exists so far, so no other key is accepted */
-    static const char *const wkeys[] = {"model", "nominal", "uncertainty",
+    static const char *const wkeys[] = {"model",   "nominal", "uncertainty",
+                                        "file",    "samples", "reference",
                                         NULL};
-    static const char *const models[] = {"constant", NULL};
+    static const char *const models[] = {"constant", "profile", "casts",
+                                         NULL};
+    static const char *const not_constant[] = {"file", "samples", "reference",
+                                               NULL};
+    static const char *const not_profile[] = {"nominal", "reference", NULL};
+    static const char *const not_casts[] = {"nominal", "file", "samples",
+                                            NULL};
     struct sb_sound_speed *ss = &ld->sys->sound_speed;
-    char path[PATH_MAX_LEN], sub[PATH_MAX_LEN], mp[PATH_MAX_LEN];
-    const struct sb_ynode *m, *t, *w, *mn;
+    char path[PATH_MAX_LEN], sub[PATH_MAX_LEN], mp[PATH_MAX_LEN],
+        cp[PATH_MAX_LEN];
+    const struct sb_ynode *m, *t, *w, *mn, *casts, *un;
+    struct sb_profile *prof[SB_CASTS_MAX] = {NULL};
+    size_t ncast = 0, k;
     int rc, model;
 
     if ((rc = section(ld, root, "", "sound_speed", 1, keys, &m, path)))
@@ -384,11 +521,156 @@ static int read_sound_speed(struct loader *ld, const struct sb_ynode *root)
     if ((rc = section(ld, m, path, "water_column", 1, wkeys, &w, sub)) ||
         (rc = sb_ymap_require(ld->doc, w, "model", sub, &mn, ld->err)) ||
         (rc = sb_ynode_choice(ld->doc, mn, join(mp, sub, "model"), models,
-                              &model, ld->err)) ||
-        (rc = read_speed(ld, w, sub, &ss->column, &ss->column_u,
-                         "sound_speed.column", "sound_speed.column_u")))
+                              &model, ld->err)))
         return rc;
+    casts = sb_ymap_get(m, "casts");
+    join(cp, path, "casts");
+    if (casts && model != 2) {
+        for (k = 0; k < m->n && m->items[k] != casts; k++)
+            ;
+        return sb_ydoc_error(ld->doc, m->key_nodes[k], ld->err,
+                             "%s: only used with water_column model casts "
+                             "(expected no casts with model %s)",
+                             cp, models[model]);
+    }
+    if (model == 0) {
+        if ((rc = refuse_keys(ld, w, sub, not_constant, "constant",
+                              "nominal and uncertainty")) ||
+            (rc = read_speed(ld, w, sub, &ss->column, &ss->column_u,
+                             "sound_speed.column", "sound_speed.column_u")))
+            return rc;
+        return SB_OK;
+    }
+
+    if (model == 1) {
+        const struct sb_ynode *fn = sb_ymap_get(w, "file");
+        const struct sb_ynode *sn = sb_ymap_get(w, "samples");
+        char fp[PATH_MAX_LEN];
+
+        if ((rc = refuse_keys(ld, w, sub, not_profile, "profile",
+                              "file or samples, and uncertainty")))
+            return rc;
+        if ((fn != NULL) == (sn != NULL))
+            return sb_ydoc_error(ld->doc, fn && sn ? sn : w, ld->err,
+                                 "%s: %s (expected exactly one of file and "
+                                 "samples)",
+                                 sub, fn ? "both file and samples given"
+                                         : "no profile given");
+        if (fn)
+            rc = load_profile_file(ld, fn, join(fp, sub, "file"), &prof[0]);
+        else
+            rc = read_samples(ld, sn, join(fp, sub, "samples"), &prof[0]);
+        if (rc)
+            return rc;
+        ncast = 1;
+    } else {
+        const struct sb_ynode *rn;
+        const char *ref;
+        char rp[PATH_MAX_LEN];
+        int reference = SB_REFERENCE_MEAN;
+
+        if ((rc = refuse_keys(ld, w, sub, not_casts, "casts",
+                              "reference and uncertainty")))
+            return rc;
+        if (!casts)
+            return sb_ydoc_error(ld->doc, m, ld->err,
+                                 "%s: missing key 'casts' (expected a list of "
+                                 "at least 2 profile files with water_column "
+                                 "model casts)",
+                                 path);
+        if ((rc = sb_ynode_expect_seq(ld->doc, casts, cp, ld->err)))
+            return rc;
+        if (casts->n < 2 || casts->n > SB_CASTS_MAX)
+            return sb_ydoc_error(ld->doc, casts, ld->err,
+                                 "%s: %zu casts (expected 2 to %d files)", cp,
+                                 casts->n, SB_CASTS_MAX);
+        if ((rc = sb_ymap_require(ld->doc, w, "reference", sub, &rn,
+                                  ld->err)) ||
+            (rc = sb_ynode_string(ld->doc, rn, join(rp, sub, "reference"),
+                                  &ref, ld->err)))
+            return rc;
+        if (strcmp(ref, "mean") != 0) {
+            reference = -1;
+            for (k = 0; k < casts->n; k++) {
+                const struct sb_ynode *it = casts->items[k];
+                if (it->kind == SB_YSCALAR && strcmp(it->text, ref) == 0) {
+                    reference = (int)k;
+                    break;
+                }
+            }
+            if (reference < 0)
+                return sb_ydoc_error(ld->doc, rn, ld->err,
+                                     "%s: '%s' is not one of the casts "
+                                     "(expected mean or a file exactly as "
+                                     "listed in %s)",
+                                     rp, ref, cp);
+        }
+        for (ncast = 0; ncast < casts->n; ncast++) {
+            char ip[PATH_MAX_LEN], num[16];
+            snprintf(num, sizeof num, "[%d]", (int)ncast + 1);
+            append(ip, sizeof ip, append(ip, sizeof ip, 0, cp), num);
+            if ((rc = load_profile_file(ld, casts->items[ncast], ip,
+                                        &prof[ncast])))
+                goto fail;
+        }
+        {
+            const double *z[SB_CASTS_MAX], *c[SB_CASTS_MAX];
+            size_t n[SB_CASTS_MAX];
+            for (k = 0; k < ncast; k++) {
+                z[k] = prof[k]->depth_m;
+                c[k] = prof[k]->speed_mps;
+                n[k] = prof[k]->n;
+            }
+            rc = sb_system_set_casts(ld->sys, z, c, n, ncast, reference,
+                                     ld->err);
+        }
+        if (rc) {
+            /* "cast K sample I: ..." -> at the list item naming cast K */
+            const struct sb_ynode *at = casts;
+            size_t bad = 0;
+            if (ld->err && sscanf(ld->err->msg, "cast %zu", &bad) == 1 &&
+                bad >= 1 && bad <= casts->n)
+                at = casts->items[bad - 1];
+            sb_error_at(ld->err, sb_ydoc_name(ld->doc), at->line, at->col);
+            goto fail;
+        }
+    }
+    if (model == 1) {
+        rc = sb_system_set_profile(ld->sys, prof[0]->depth_m,
+                                   prof[0]->speed_mps, prof[0]->n, ld->err);
+        if (rc) {
+            const struct sb_ynode *at = sb_ymap_get(w, "file");
+            if (!at)
+                at = sb_ymap_get(w, "samples");
+            sb_error_at(ld->err, sb_ydoc_name(ld->doc), at->line, at->col);
+            goto fail;
+        }
+        if (prof[0]->source[0] && sb_ymap_get(w, "file"))
+            snprintf(ss->refraction->source, sizeof ss->refraction->source,
+                     "%s", prof[0]->source);
+    }
+    for (k = 0; k < ncast; k++)
+        sb_profile_free(prof[k]);
+    ncast = 0;
+    note(ld, "sound_speed.column", mp, mn);
+    note(ld, "sound_speed.model", mp, mn);
+    if ((rc = get_stated(ld, w, sub, "uncertainty", 1,
+                         SB_DIM_SPEED | SB_DIM_RATIO, 0, &ss->column_u,
+                         "sound_speed.column_u")))
+        return rc;
+    if (sb_system_abs_u(&ss->column_u, ss->column) > 0.1 * ss->column) {
+        un = sb_ymap_get(w, "uncertainty");
+        return sb_ydoc_error(ld->doc, un, ld->err,
+                             "%s.uncertainty: more than 10 %% of the mean "
+                             "speed (expected a standard uncertainty below "
+                             "%.0f m/s)",
+                             sub, 0.1 * ss->column);
+    }
     return SB_OK;
+fail:
+    for (k = 0; k < ncast && k < SB_CASTS_MAX; k++)
+        sb_profile_free(prof[k]);
+    return rc;
 }
 
 static const struct range R_FREQ = {0.0, 10e6, 1, 0,
@@ -405,13 +687,81 @@ static const struct range R_RATE = {0.0, 1e9, 1, 0,
 static const struct range R_PULSE = {0.0, 1.0, 0, 0,
                                      "a pulse length from 0 s to 1 s"};
 
+static const struct range R_OVERHEAD = {0.0, 10.0, 0, 0,
+                                        "a time from 0 s to 10 s"};
+
+/* The beam layout and ping overhead used by the sounding density
+ * (density.h): optional as a group; beam_spacing, ping_overhead and
+ * feature_soundings only mean something with beams. */
+static int read_beam_layout(struct loader *ld, const struct sb_ynode *m,
+                            const char *path)
+{
+    static const char *const spacings[] = {"equiangular", "equidistant",
+                                           NULL};
+    struct sb_echosounder *e = &ld->sys->echosounder;
+    const struct sb_ynode *bn = sb_ymap_get(m, "beams");
+    const struct sb_ynode *sn = sb_ymap_get(m, "beam_spacing");
+    const struct sb_ynode *on = sb_ymap_get(m, "ping_overhead");
+    const struct sb_ynode *fn = sb_ymap_get(m, "feature_soundings");
+    char sub[PATH_MAX_LEN];
+    long beams;
+    double n;
+    int rc, spacing;
+
+    if (!bn) {
+        const struct sb_ynode *other = sn ? sn : on ? on : fn;
+
+        if (other)
+            return sb_ydoc_error(ld->doc, other, ld->err,
+                                 "%s: beam_spacing, ping_overhead and "
+                                 "feature_soundings need 'beams' (expected "
+                                 "the number of beams as well)",
+                                 path);
+        return SB_OK;
+    }
+    if ((rc = sb_ynode_int(ld->doc, bn, join(sub, path, "beams"), 2, 100000,
+                           &beams, ld->err)))
+        return rc;
+    e->beams = (int)beams;
+    note(ld, "echosounder.beams", sub, bn);
+    if (!sn)
+        return sb_ydoc_error(ld->doc, m, ld->err,
+                             "%s: missing required key 'beam_spacing' "
+                             "(expected equiangular or equidistant with "
+                             "beams)",
+                             path);
+    if ((rc = sb_ynode_choice(ld->doc, sn, join(sub, path, "beam_spacing"),
+                              spacings, &spacing, ld->err)))
+        return rc;
+    e->beam_spacing = spacing;
+    if ((rc = get_quantity(ld, m, path, "ping_overhead", 0, SB_DIM_TIME,
+                           &R_OVERHEAD, &e->ping_overhead,
+                           "echosounder.ping_overhead")))
+        return rc;
+    if (fn) {
+        if ((rc = sb_ynode_double(ld->doc, fn,
+                                  join(sub, path, "feature_soundings"), &n,
+                                  ld->err)))
+            return rc;
+        if (!(n > 0.0 && n <= 1000.0))
+            return sb_ydoc_error(ld->doc, fn, ld->err,
+                                 "%s: '%s' is out of range (expected a "
+                                 "number above 0 and at most 1000, e.g. 3)",
+                                 sub, fn->text);
+        e->feature_soundings = n;
+        note(ld, "echosounder.feature_soundings", sub, fn);
+    }
+    return SB_OK;
+}
+
 static int read_echosounder(struct loader *ld, const struct sb_ynode *root)
 {
     static const char *const keys[] = {
         "frequency",        "beam_width_across", "beam_width_along",
         "array",            "range_resolution",  "sample_rate",
         "pulse_length",     "pointing",          "max_beam_angle",
-        NULL};
+        "beams",            "beam_spacing",      "ping_overhead",
+        "feature_soundings", NULL};
     static const char *const arrays[] = {"flat", "curved", NULL};
     struct sb_echosounder *e = &ld->sys->echosounder;
     char path[PATH_MAX_LEN], sub[PATH_MAX_LEN];
@@ -491,7 +841,7 @@ static int read_echosounder(struct loader *ld, const struct sb_ynode *root)
                            &R_MAXANG, &e->max_angle,
                            "echosounder.max_angle")))
         return rc;
-    return SB_OK;
+    return read_beam_layout(ld, m, path);
 }
 
 static const struct range R_DRAFT = {0.0, 50.0, 0, 0,
@@ -694,13 +1044,17 @@ static int load_doc(const struct sb_ydoc *doc, struct sb_system *out,
         (rc = read_sound_speed(&ld, root)) ||
         (rc = read_echosounder(&ld, root)) ||
         (rc = read_vertical(&ld, root)) ||
-        (rc = read_conditions(&ld, root)))
+        (rc = read_conditions(&ld, root))) {
+        sb_system_release(&sys); /* a profile read before the error */
         return rc;
+    }
     rc = sb_system_validate(&sys, err);
     if (rc == SB_EINPUT)
-        return place_validation(&ld, root);
-    if (rc != SB_OK)
+        rc = place_validation(&ld, root);
+    if (rc != SB_OK) {
+        sb_system_release(&sys);
         return rc;
+    }
     *out = sys;
     return SB_OK;
 }

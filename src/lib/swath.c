@@ -19,6 +19,7 @@ const char *sb_swath_reason_name(int reason)
     case SB_SWATH_THU: return "thu";
     case SB_SWATH_NADIR: return "nadir";
     case SB_SWATH_MAX_ANGLE: return "max_angle";
+    case SB_SWATH_RAY_TURNS: return "ray_turns";
     default: return "?";
     }
 }
@@ -154,7 +155,15 @@ static int finish_side(struct ctx *x, double sign, double a, int reason, int fai
 
 static int scan_side(struct ctx *x, gsl_root_fsolver *s, double sign, struct sb_swath_side *sd)
 {
-    const double amax = x->sys->echosounder.max_angle;
+    double amax = x->sys->echosounder.max_angle;
+    /* with a profile, rays beyond the turning angle never reach the
+     * seafloor: the scan stops just inside it */
+    int end_reason = SB_SWATH_MAX_ANGLE;
+    const double aturn = sb_beam_turn_angle(x->sys, x->depth_m) - SB_SWATH_ANGLE_TOL_RAD;
+    if (aturn < amax) {
+        amax = aturn > 0.0 ? aturn : 0.0;
+        end_reason = SB_SWATH_RAY_TURNS;
+    }
     struct sb_tpu t;
     int rc = eval(x, 0.0, &t, NULL);
     if (rc)
@@ -165,6 +174,8 @@ static int scan_side(struct ctx *x, gsl_root_fsolver *s, double sign, struct sb_
                            (ftv > 0.0 ? SB_LIMIT_TVU : 0) | (fth > 0.0 ? SB_LIMIT_THU : 0), sd);
 
     const int nstep = (int)ceil(amax / SB_SWATH_SCAN_STEP_RAD - 1e-9);
+    if (nstep < 1)
+        return finish_side(x, sign, amax, end_reason, SB_LIMIT_NONE, sd);
     double lo = 0.0;
     for (int k = 1; k <= nstep; k++) {
         double hi = k == nstep ? amax : k * SB_SWATH_SCAN_STEP_RAD;
@@ -199,7 +210,7 @@ static int scan_side(struct ctx *x, gsl_root_fsolver *s, double sign, struct sb_
         ftv = gtv;
         fth = gth;
     }
-    return finish_side(x, sign, amax, SB_SWATH_MAX_ANGLE, SB_LIMIT_NONE, sd);
+    return finish_side(x, sign, amax, end_reason, SB_LIMIT_NONE, sd);
 }
 
 int sb_swath_fail(const struct sb_system *sys, const struct sb_horiz95 *h95, double depth_m,
@@ -245,17 +256,26 @@ int sb_swath_grid(const struct sb_system *sys, const struct sb_horiz95 *h95,
 {
     for (size_t ia = 0; ia < n_angles; ia++) {
         struct sb_beam b;
+        int fresh = 1; /* b must be set up (first depth, or after a turn) */
         for (size_t id = 0; id < n_depths; id++) {
-            int rc = id == 0 ? sb_beam_setup(sys, depths_m[0], angles_rad[ia], &b, err)
-                             : sb_beam_redepth(&b, depths_m[id], err);
+            int rc = fresh ? sb_beam_setup(sys, depths_m[id], angles_rad[ia], &b, err)
+                           : sb_beam_redepth(&b, depths_m[id], err);
+            struct sb_grid_point *g = &out[id * n_angles + ia];
+            if (rc == SB_RAY_TURNS) {
+                g->tvu95_m = g->thu95_m = g->thu95_s44_m = g->sigma_z_m = INFINITY;
+                g->ray_turns = 1;
+                fresh = 1;
+                continue;
+            }
             if (rc)
                 return rc;
+            fresh = 0;
             struct sb_tpu t;
             if (sb_propagate(&b, h95, &t, NULL))
                 return sb_error_set(err, SB_ENUM, "", 0, 0,
                                     "uncertainty not finite at depth %.6g m (finite inputs)",
                                     depths_m[id]);
-            struct sb_grid_point *g = &out[id * n_angles + ia];
+            g->ray_turns = 0;
             g->tvu95_m = t.tvu95_m;
             g->thu95_m = t.thu95_m;
             g->thu95_s44_m = t.thu95_s44_m;

@@ -5,6 +5,8 @@
  */
 #include "swathbudget/system.h"
 
+#include "swathbudget/refraction.h"
+
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -67,6 +69,10 @@ void sb_system_init_defaults(struct sb_system *sys)
     sys->echosounder.pulse_length = 0.0;
     zero_stated(&sys->echosounder.pointing, SB_DIM_RATIO, "%");
     sys->echosounder.max_angle = 75.0 * DEG;
+    sys->echosounder.beams = 0;
+    sys->echosounder.beam_spacing = 0;
+    sys->echosounder.ping_overhead = 0.0;
+    sys->echosounder.feature_soundings = 3.0; /* common practice */
 
     sys->vertical.method = SB_VREF_TIDE;
     zero_stated(&sys->vertical.draft_u, SB_DIM_LENGTH, "m");
@@ -89,9 +95,95 @@ struct sb_system *sb_system_alloc(void)
     return s;
 }
 
+void sb_system_release(struct sb_system *sys)
+{
+    if (!sys)
+        return;
+    sb_refraction_free(sys->sound_speed.refraction);
+    sys->sound_speed.refraction = NULL;
+    sys->sound_speed.model = SB_COLUMN_CONSTANT;
+}
+
 void sb_system_free(struct sb_system *sys)
 {
+    sb_system_release(sys);
     free(sys);
+}
+
+/* Speeds of a profile for the engine: the same plausible range as the
+ * constant speeds (a speed outside it is a unit or typing error). */
+static int check_speeds(const double *c, size_t n, const char *what,
+                        struct sb_error *err)
+{
+    for (size_t i = 0; i < n; i++)
+        if (!(c[i] > 1300.0 && c[i] < 1800.0))
+            return sb_error_set(err, SB_EINPUT, "", 0, 0,
+                                "%ssample %zu: speed %g m/s (expected a sound "
+                                "speed between 1300 and 1800 m/s)",
+                                what, i + 1, c[i]);
+    return SB_OK;
+}
+
+static void adopt(struct sb_system *sys, struct sb_refraction *r, int model)
+{
+    sb_refraction_free(sys->sound_speed.refraction);
+    sys->sound_speed.refraction = r;
+    sys->sound_speed.model = model;
+    sys->sound_speed.column = r->ref.c_mean;
+}
+
+int sb_system_set_profile(struct sb_system *sys, const double *depth_m,
+                          const double *speed_mps, size_t n,
+                          struct sb_error *err)
+{
+    struct sb_refraction *r;
+    int rc = check_speeds(speed_mps, n, "", err);
+    if (rc == SB_OK)
+        rc = sb_refraction_alloc_profile(depth_m, speed_mps, n, NULL, &r, err);
+    if (rc == SB_OK)
+        adopt(sys, r, SB_COLUMN_PROFILE);
+    return rc;
+}
+
+int sb_system_set_casts(struct sb_system *sys, const double *const *depth_m,
+                        const double *const *speed_mps, const size_t *n,
+                        size_t n_casts, int reference, struct sb_error *err)
+{
+    struct sb_refraction *r;
+    int rc = SB_OK;
+    for (size_t k = 0; k < n_casts && k < SB_CASTS_MAX && rc == SB_OK; k++) {
+        char what[32];
+        snprintf(what, sizeof what, "cast %zu ", k + 1);
+        rc = check_speeds(speed_mps[k], n[k], what, err);
+    }
+    if (rc == SB_OK)
+        rc = sb_refraction_alloc_casts(depth_m, speed_mps, n, n_casts,
+                                       reference, &r, err);
+    if (rc == SB_OK)
+        adopt(sys, r, SB_COLUMN_CASTS);
+    return rc;
+}
+
+const char *sb_system_describe_column(const struct sb_system *sys, char *buf,
+                                      size_t n)
+{
+    const struct sb_sound_speed *ss = &sys->sound_speed;
+    const struct sb_refraction *r = ss->refraction;
+
+    if (ss->model == SB_COLUMN_CONSTANT || !r)
+        snprintf(buf, n, "constant %.1f m/s, straight rays", ss->column);
+    else if (ss->model == SB_COLUMN_PROFILE)
+        snprintf(buf, n, "measured profile %s, %zu samples, traced (mean %.1f m/s)",
+                 r->source, r->ref.n, ss->column);
+    else if (r->reference == SB_REFERENCE_MEAN)
+        snprintf(buf, n, "%zu casts, their mean traced (%zu samples, mean %.1f m/s); "
+                 "their spread is the refraction component", r->n_casts, r->ref.n,
+                 ss->column);
+    else
+        snprintf(buf, n, "%zu casts, cast %d traced (%zu samples, mean %.1f m/s); "
+                 "their spread is the refraction component", r->n_casts,
+                 r->reference + 1, r->ref.n, ss->column);
+    return buf;
 }
 
 double sb_system_abs_u(const struct sb_stated *s, double reference)
@@ -191,6 +283,11 @@ int sb_system_validate(const struct sb_system *s, struct sb_error *err)
         check_stated(&s->sound_speed.column_u, SB_DIM_SPEED | SB_DIM_RATIO,
                      "sound_speed.column_u", err))
         return SB_EINPUT;
+    if (s->sound_speed.model != SB_COLUMN_CONSTANT &&
+        !((s->sound_speed.model == SB_COLUMN_PROFILE ||
+           s->sound_speed.model == SB_COLUMN_CASTS) &&
+          s->sound_speed.refraction))
+        return bad(err, "sound_speed.model", "a profile model without its profile (sb_system_set_profile or sb_system_set_casts)");
     /* a 10 % speed uncertainty is already far outside any survey practice;
      * beyond it the linearisation (and Snell steering) stops making sense */
     if (sb_system_abs_u(&s->sound_speed.surface_u, s->sound_speed.surface) >
@@ -228,6 +325,15 @@ int sb_system_validate(const struct sb_system *s, struct sb_error *err)
         return SB_EINPUT;
     if (e->pointing.dim == SB_DIM_RATIO && e->pointing.u > 1.0)
         return bad(err, "echosounder.pointing", "more than the whole beam width (a fraction of at most 100 %)");
+    if (e->beams != 0 && (e->beams < 2 || e->beams > 100000))
+        return bad(err, "echosounder.beams", "out of range (2 to 100000 soundings per ping, or 0 for not stated)");
+    if (e->beam_spacing != 0 && e->beam_spacing != 1)
+        return bad(err, "echosounder.beam_spacing", "unknown spacing (equiangular or equidistant)");
+    if (check_range(e->ping_overhead, 0.0, 10.0, 0, 0, "echosounder.ping_overhead",
+                    "a time from 0 to 10 s", err) ||
+        check_range(e->feature_soundings, 0.0, 1000.0, 1, 0, "echosounder.feature_soundings",
+                    "a number above 0 and at most 1000", err))
+        return SB_EINPUT;
 
     const struct sb_vertical_ref *v = &s->vertical;
     if (v->method != SB_VREF_TIDE && v->method != SB_VREF_ELLIPSOID)
