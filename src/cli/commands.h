@@ -14,5 +14,7 @@ SB_DECLARE_COMMAND(breakdown);
 SB_DECLARE_COMMAND(soundspeed);
 SB_DECLARE_COMMAND(raytrace);
 SB_DECLARE_COMMAND(verify);
+SB_DECLARE_COMMAND(compare);
+SB_DECLARE_COMMAND(report);
 
 #endif

@@ -32,6 +32,10 @@ static const struct command commands[] = {
      "travel time, offset and arrival angle of beams through a profile"},
     {"verify", cmd_verify, cmd_verify_help,
      "Monte Carlo check of the linear budget (JCGM 101)"},
+    {"compare", cmd_compare, cmd_compare_help,
+     "systems side by side: usable swath, survey effort, what-if"},
+    {"report", cmd_report, cmd_report_help,
+     "a self-contained HTML report for a client, or one plot as SVG"},
 };
 
 #define N_COMMANDS (sizeof commands / sizeof commands[0])

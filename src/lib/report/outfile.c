@@ -42,6 +42,13 @@ int sb_outfile_open(struct sb_outfile *o, const char *path,
         return sb_error_set(err, SB_EIO, path, 0, 0,
                             "cannot create the output file: %s (expected a "
                             "writable directory)", strerror(errno));
+    {
+        /* mkstemp makes the file private (0600); an output file should
+         * get the mode any new file would: 0666 less the umask. */
+        mode_t mask = umask(0);
+        umask(mask);
+        (void)fchmod(fd, 0666 & ~mask);
+    }
     o->f = fdopen(fd, "w");
     if (!o->f) {
         int e = errno;
