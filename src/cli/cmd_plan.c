@@ -18,6 +18,7 @@
 
 #include "cli.h"
 #include "commands.h"
+#include "swathbudget/density.h"
 #include "swathbudget/georef.h"
 #include "swathbudget/horiz95.h"
 #include "swathbudget/orders.h"
@@ -160,6 +161,10 @@ struct usable_row {
     struct sb_swath_result res;
     const struct sb_swath_side *narrow; /* port or starboard of res */
     struct sb_grid_point edge;          /* at the narrower side's angle */
+    /* the second limit: sounding density for the order's feature size at
+     * the system's survey speed (issue text: beside the TVU/THU angle) */
+    int density_applies;                /* beams stated and a feature size */
+    struct sb_density_limit density;
 };
 
 static const char *dominant_name(const struct sb_swath_side *s)
@@ -173,6 +178,11 @@ static int compute_usable(const struct sb_system *sys,
                           const double *depths, size_t nd, int rule,
                           struct usable_row *rows, struct sb_error *err)
 {
+    struct sb_density_params dp;
+    const int has_beams = sb_density_params_from_system(sys, &dp);
+    const double tx = sys->vertical.draft + sys->vertical.squat +
+                      sys->vertical.loading;
+
     for (size_t k = 0; k < nsel; k++)
         for (size_t i = 0; i < nd; i++) {
             struct usable_row *r = &rows[k * nd + i];
@@ -195,6 +205,16 @@ static int compute_usable(const struct sb_system *sys,
             rc = sb_swath_grid(sys, h95, &depths[i], 1, &a, 1, &r->edge, err);
             if (rc != SB_OK)
                 return rc;
+            {
+                double feature;
+                r->density_applies =
+                    has_beams && sb_order_feature(sel[k], depths[i], &feature);
+                if (r->density_applies &&
+                    (rc = sb_density_limit(&dp, depths[i] - tx,
+                                           sys->conditions.speed, feature,
+                                           &r->density, err)) != SB_OK)
+                    return rc;
+            }
         }
     return SB_OK;
 }
@@ -246,6 +266,13 @@ static int write_json(const struct sb_system *sys,
         sb_json_key(&j, "dominant");
         if (dom)
             sb_json_string(&j, dom);
+        else
+            sb_json_null(&j);
+        /* the density limit angle, null where it does not apply (no beam
+         * count stated, or the order sets no feature size) */
+        sb_json_key(&j, "density_deg");
+        if (u->density_applies)
+            sb_json_number(&j, u->density.angle_rad * RAD2DEG, JSON_DIGITS);
         else
             sb_json_null(&j);
         sb_json_end_object(&j);
@@ -314,6 +341,7 @@ static int write_usable_table(const struct usable_row *rows, size_t nrows,
         {"port by", "limited_by_port", 0},
         {"stbd by", "limited_by_starboard", 0},
         {"dominant", "dominant", 0},
+        {"density (deg)", "density_deg", 2},
         {"TVU95 edge (m)", "tvu_edge_m", 3},
         {"THU95 exact edge (m)", "thu_edge_m", 3},
         {"THU95 S-44 edge (m)", "thu_s44_edge_m", 3},
@@ -339,6 +367,10 @@ static int write_usable_table(const struct usable_row *rows, size_t nrows,
             (rc = sb_table_str(
                  t, sb_swath_reason_name(u->res.starboard.reason))) ||
             (rc = dom ? sb_table_str(t, dom) : sb_table_empty(t, "-")) ||
+            (rc = !u->density_applies ? sb_table_empty(t, "-")
+                  : u->density.verdict == SB_DENSITY_NADIR
+                      ? sb_table_str(t, "nadir")
+                      : sb_table_num(t, u->density.angle_rad * RAD2DEG)) ||
             (rc = sb_table_num(t, u->edge.tvu95_m)) ||
             (rc = sb_table_num(t, u->edge.thu95_m)) ||
             (rc = sb_table_num(t, u->edge.thu95_s44_m)))
@@ -422,7 +454,12 @@ static int write_text(const struct sb_system *sys,
                "THU compared as: %s\n\n"
                "Usable swath: beam angle from nadir out to which every "
                "sounding meets the order\n(95 %%); '-' where nadir already "
-               "fails.  Edge figures are at the narrower side.\n\n",
+               "fails.  Edge figures are at the narrower side.\n"
+               "density: angle beyond which a cube of the order's feature "
+               "size gets fewer\nsoundings than the system's "
+               "feature_soundings at its survey speed ('-': no\nfeature "
+               "size, or no beam count stated); a second limit, see "
+               "docs/report.md.\n\n",
                std->title, std->id,
                rule == SB_THU_S44 ? "2.45 x larger semi-axis (S-44 style)"
                                   : "exact 95 % radius of the error ellipse");

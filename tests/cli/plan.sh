@@ -101,7 +101,7 @@ assert doc["system"] == "kestrel-launch", doc["system"]
 assert doc["standard"] == "s44-6", doc["standard"]
 need = {"order", "depth_m", "port_deg", "starboard_deg", "swath_width_m",
         "limited_by", "dominant"}
-extra = {"limited_by_port", "limited_by_starboard"}
+extra = {"limited_by_port", "limited_by_starboard", "density_deg"}
 reasons = {"tvu", "thu", "max_angle", "nadir"}
 # S-44 ed. 6 has five orders; six depths 10..60
 assert len(doc["usable"]) == 5 * 6, len(doc["usable"])
