@@ -93,6 +93,9 @@ struct run {
     const char *file;
     char label[SB_SYSTEM_NAME_MAX + 16];
     struct sb_system *sys;
+    /* 1 for the upgraded copy: a shallow copy of the first system, whose
+     * profile(s) it borrows and must not free */
+    int borrowed;
     struct sb_density_params dp;
     int has_dp;
 };
@@ -493,8 +496,12 @@ static int write_json(const struct sb_standard *std, const struct run *runs,
 
 static void free_runs(struct run *runs, size_t nr)
 {
-    for (size_t r = 0; r < nr; r++)
-        sb_system_free(runs[r].sys);
+    for (size_t r = 0; r < nr; r++) {
+        if (runs[r].borrowed)
+            free(runs[r].sys);
+        else
+            sb_system_free(runs[r].sys);
+    }
 }
 
 int cmd_compare(int argc, char **argv)
@@ -654,6 +661,7 @@ int cmd_compare(int argc, char **argv)
             }
             nr++;
             *u->sys = *r->sys;
+            u->borrowed = 1;
             if ((rc = sb_whatif_apply(u->sys, upgrade, &fld, &err))) {
                 status = rc == SB_EINPUT
                              ? cli_usage_error(CMD, "--upgrade: %s", err.msg)

@@ -499,7 +499,14 @@ static int summary(struct ctx *c, struct sb_html *h)
             udep = c->depths[i];
         }
     }
-    if (isfinite(umin))
+    if (isfinite(umin) && umin <= 0.0)
+        snprintf(extra, sizeof extra,
+                 "  At the stated speed of %.1f kn, too few soundings would "
+                 "fall on a feature of the order's size even at nadir at "
+                 "%g m (the sounding-density limit, Table 1): survey slower "
+                 "or with more beams there.",
+                 c->sys->conditions.speed / MPS_PER_KN, udep);
+    else if (isfinite(umin))
         snprintf(extra, sizeof extra,
                  "  At the stated speed of %.1f kn, too few soundings would "
                  "fall on a feature of the order's size beyond %.1f deg at "

@@ -185,5 +185,14 @@ expect2 "area speed unit" compare "$LAUNCH" --area "$TMP/badspeed.yaml"
 if grep -q "badspeed.yaml:8:10:" "$TMP/err"; then ok; else bad "speed position: $(cat "$TMP/err")"; fi
 expect2 "depth above transducer" compare "$SRC/profiles/systems/kestrel-deep.yaml" --depths 2
 
+# An upgrade of a system that traces casts: the upgraded copy shares the
+# casts with the original and must not free them a second time (a double
+# free here once aborted the run; the sanitizer build makes it loud).
+if "$SWATHBUDGET" compare "$SRC/profiles/systems/kestrel-deep.yaml" --order 1a \
+        --depths 100 --upgrade echosounder.pointing="3 %" --format json \
+        >"$TMP/up.json" 2>"$TMP/err" &&
+   grep -q '"upgrade": "echosounder.pointing=3 %"' "$TMP/up.json"; then ok
+else bad "upgrade of a system with casts: $(cat "$TMP/err")"; fi
+
 echo "$pass passed, $fail failed"
 [ "$fail" -eq 0 ]
