@@ -7,6 +7,9 @@
 #include <stdarg.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/stat.h>
+
+#include "swathbudget/orders.h"
 
 int cli_usage_error(const char *cmd, const char *fmt, ...)
 {
@@ -252,4 +255,85 @@ int cli_bad_option(const char *cmd, int argc, char **argv)
     return cli_usage_error(cmd, "unknown option or missing value '%s' "
                                 "(expected one of the options listed by "
                                 "--help)", w);
+}
+
+int cli_check_input_file(const char *cmd, const char *opt, const char *path,
+                         const char *what)
+{
+    struct stat st;
+    const char *sep = opt && *opt ? ": " : "";
+
+    if (!opt)
+        opt = "";
+    if (stat(path, &st) != 0)
+        return cli_usage_error(cmd, "%s%sno such file '%s' (expected %s)", opt,
+                               sep, path, what);
+    if (S_ISDIR(st.st_mode))
+        return cli_usage_error(cmd, "%s%s'%s' is a directory (expected %s)",
+                               opt, sep, path, what);
+    return CLI_EXIT_OK;
+}
+
+int cli_check_standard_arg(const char *cmd, const char *arg)
+{
+    const char *const *ids = sb_standard_builtin_ids();
+    char known[128] = "";
+    struct stat st;
+
+    if (!arg || sb_standard_builtin(arg))
+        return CLI_EXIT_OK;
+    for (size_t i = 0; ids[i]; i++) {
+        size_t used = strlen(known);
+
+        snprintf(known + used, sizeof known - used, "%s%s", ids[i],
+                 ids[i + 1] ? ", " : "");
+    }
+    if (stat(arg, &st) != 0 || S_ISDIR(st.st_mode))
+        return cli_usage_error(cmd, "--standard: '%s' is neither a "
+                                    "compiled-in standard nor an existing "
+                                    "file (expected %s or a YAML file)",
+                               arg, known);
+    return CLI_EXIT_OK;
+}
+
+int cli_select_orders(const char *cmd, const struct sb_standard *std,
+                      const char *arg, const struct sb_order **sel, size_t *n)
+{
+    char buf[1024], known[512];
+    const char *words[SB_STANDARD_ORDERS_MAX];
+    size_t nw, used = 0;
+    int rc;
+
+    if (!arg) {
+        for (int i = 0; i < std->n_orders; i++)
+            sel[i] = &std->orders[i];
+        *n = (size_t)std->n_orders;
+        return CLI_EXIT_OK;
+    }
+    rc = cli_split_words(cmd, "--order", arg, buf, sizeof buf, words,
+                         SB_STANDARD_ORDERS_MAX, &nw);
+    if (rc != CLI_EXIT_OK)
+        return rc;
+    known[0] = '\0';
+    for (int i = 0; i < std->n_orders && used < sizeof known; i++) {
+        int w = snprintf(known + used, sizeof known - used, "%s%s",
+                         i ? ", " : "", std->orders[i].id);
+        if (w < 0)
+            break;
+        used += (size_t)w;
+    }
+    for (size_t k = 0; k < nw; k++) {
+        sel[k] = sb_standard_order(std, words[k]);
+        if (!sel[k])
+            return cli_usage_error(cmd, "--order: unknown order '%s' in %s "
+                                        "(expected one of: %s)",
+                                   words[k], std->id, known);
+        for (size_t m = 0; m < k; m++)
+            if (sel[m] == sel[k])
+                return cli_usage_error(cmd, "--order: order '%s' named twice "
+                                            "(expected each order once)",
+                                       words[k]);
+    }
+    *n = nw;
+    return CLI_EXIT_OK;
 }

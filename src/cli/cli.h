@@ -71,6 +71,27 @@ int cli_split_words(const char *cmd, const char *opt, const char *arg,
                     char *buf, size_t bufsize, const char **words, size_t max,
                     size_t *n);
 
+/* An input file named on the command line must exist and not be a
+ * directory; otherwise a usage error "OPT: no such file 'PATH' (expected
+ * WHAT)" (opt may be "" for a positional argument).  A file that exists but
+ * cannot be read is left to its loader (an I/O failure, exit 1). */
+int cli_check_input_file(const char *cmd, const char *opt, const char *path,
+                         const char *what);
+
+/* --standard: a compiled-in id, or an existing file (a custom standard).
+ * A word that is neither is most likely a mistyped id: a usage error that
+ * lists the compiled-in ids.  NULL (the default) is fine. */
+int cli_check_standard_arg(const char *cmd, const char *arg);
+
+struct sb_standard;
+struct sb_order;
+/* --order A,B,...: the orders of std named in arg, in that order, each at
+ * most once; all of the standard's orders when arg is NULL.  sel must hold
+ * SB_STANDARD_ORDERS_MAX entries. */
+int cli_select_orders(const char *cmd, const struct sb_standard *std,
+                      const char *arg, const struct sb_order **sel,
+                      size_t *n);
+
 /* Print "swathbudget CMD: unknown option ..." for getopt's '?' case. */
 int cli_bad_option(const char *cmd, int argc, char **argv);
 

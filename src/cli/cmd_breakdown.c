@@ -15,7 +15,6 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-#include <sys/stat.h>
 
 #include "cli.h"
 #include "commands.h"
@@ -225,23 +224,6 @@ static int write_text(const struct sb_system *sys, const struct sb_beam *b,
     return CLI_EXIT_OK;
 }
 
-/* A system file that does not exist is a usage error (exit 2), like a
- * mistyped option; one that exists but cannot be read is an I/O failure. */
-static int check_system_arg(const char *path)
-{
-    struct stat st;
-
-    if (stat(path, &st) != 0)
-        return cli_usage_error(CMD, "no such file '%s' (expected a system "
-                                    "YAML file, see docs/spec.md)",
-                               path);
-    if (S_ISDIR(st.st_mode))
-        return cli_usage_error(CMD, "'%s' is a directory (expected a system "
-                                    "YAML file)",
-                               path);
-    return CLI_EXIT_OK;
-}
-
 static int breakdown_loaded(const struct sb_system *psys, double depth, double angle,
                             enum sb_format fmt);
 
@@ -295,7 +277,9 @@ int cmd_breakdown(int argc, char **argv)
                                &angle)) != CLI_EXIT_OK)
         return rc;
 
-    if ((rc = check_system_arg(argv[optind])) != CLI_EXIT_OK)
+    if ((rc = cli_check_input_file(CMD, "", argv[optind],
+                                   "a system YAML file, see docs/spec.md")) !=
+        CLI_EXIT_OK)
         return rc;
     sb_error_clear(&err);
     if ((rc = sb_spec_load(argv[optind], &sys, &err)) != SB_OK)

@@ -13,7 +13,6 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-#include <sys/stat.h>
 
 #include "cli.h"
 #include "commands.h"
@@ -106,59 +105,6 @@ struct effort_row {
     enum sb_speed_reason why;
     struct sb_effort e;
 };
-
-static int select_orders(const struct sb_standard *std, const char *arg,
-                         const struct sb_order **sel, size_t *n)
-{
-    char buf[1024], known[512];
-    const char *words[SB_STANDARD_ORDERS_MAX];
-    size_t nw, used = 0;
-    int rc;
-
-    known[0] = '\0';
-    for (int i = 0; i < std->n_orders && used < sizeof known; i++) {
-        int w = snprintf(known + used, sizeof known - used, "%s%s",
-                         i ? ", " : "", std->orders[i].id);
-        if (w < 0)
-            break;
-        used += (size_t)w;
-    }
-    if (!arg) {
-        for (int i = 0; i < std->n_orders; i++)
-            sel[i] = &std->orders[i];
-        *n = (size_t)std->n_orders;
-        return CLI_EXIT_OK;
-    }
-    rc = cli_split_words(CMD, "--order", arg, buf, sizeof buf, words,
-                         SB_STANDARD_ORDERS_MAX, &nw);
-    if (rc != CLI_EXIT_OK)
-        return rc;
-    for (size_t k = 0; k < nw; k++) {
-        sel[k] = sb_standard_order(std, words[k]);
-        if (!sel[k])
-            return cli_usage_error(CMD, "--order: unknown order '%s' in %s "
-                                        "(expected one of: %s)",
-                                   words[k], std->id, known);
-        for (size_t m = 0; m < k; m++)
-            if (sel[m] == sel[k])
-                return cli_usage_error(CMD, "--order: order '%s' named twice "
-                                            "(expected each order once)",
-                                       words[k]);
-    }
-    *n = nw;
-    return CLI_EXIT_OK;
-}
-
-static int check_file_arg(const char *what, const char *path)
-{
-    struct stat st;
-
-    if (stat(path, &st) != 0 || S_ISDIR(st.st_mode))
-        return cli_usage_error(CMD, "%s '%s' is not an existing file "
-                                    "(expected a YAML file)",
-                               what, path);
-    return CLI_EXIT_OK;
-}
 
 /* Usable across-track distance of one side, capped by the density angle. */
 static double side_width(const struct sb_usable *u,
@@ -592,13 +538,16 @@ int cmd_compare(int argc, char **argv)
         nd = sizeof default_depths / sizeof default_depths[0];
         memcpy(depths, default_depths, sizeof default_depths);
     }
-    if (std_arg && !sb_standard_builtin(std_arg) &&
-        (rc = check_file_arg("--standard:", std_arg)))
+    if ((rc = cli_check_standard_arg(CMD, std_arg)))
         return rc;
-    if (area_arg && (rc = check_file_arg("--area:", area_arg)))
+    if (area_arg &&
+        (rc = cli_check_input_file(CMD, "--area", area_arg,
+                                   "an area YAML file, see docs/area.md")))
         return rc;
     for (size_t i = 0; i < nfiles; i++)
-        if ((rc = check_file_arg("system file", argv[optind + i])))
+        if ((rc = cli_check_input_file(CMD, "", argv[optind + i],
+                                       "a system YAML file, see "
+                                       "docs/spec.md")))
             return rc;
 
     sb_error_clear(&err);
@@ -626,7 +575,7 @@ int cmd_compare(int argc, char **argv)
     if (!order_arg && aorder) {
         sel[0] = aorder;
         nsel = 1;
-    } else if ((rc = select_orders(std, order_arg, sel, &nsel))) {
+    } else if ((rc = cli_select_orders(CMD, std, order_arg, sel, &nsel))) {
         sb_area_free(area);
         return rc;
     }

@@ -65,49 +65,6 @@ void cmd_limits_help(FILE *f)
             "a-priori estimate.\n");
 }
 
-/* Pick the orders named in arg (or all); usage error on an unknown one. */
-static int select_orders(const struct sb_standard *std, const char *arg,
-                         const struct sb_order **sel, size_t *n)
-{
-    char buf[1024], known[512];
-    const char *words[SB_STANDARD_ORDERS_MAX];
-    size_t nw, used = 0;
-    int rc;
-
-    if (!arg) {
-        for (int i = 0; i < std->n_orders; i++)
-            sel[i] = &std->orders[i];
-        *n = (size_t)std->n_orders;
-        return CLI_EXIT_OK;
-    }
-    rc = cli_split_words(CMD, "--order", arg, buf, sizeof buf, words,
-                         SB_STANDARD_ORDERS_MAX, &nw);
-    if (rc != CLI_EXIT_OK)
-        return rc;
-    known[0] = '\0';
-    for (int i = 0; i < std->n_orders && used < sizeof known; i++) {
-        int w = snprintf(known + used, sizeof known - used, "%s%s",
-                         i ? ", " : "", std->orders[i].id);
-        if (w < 0)
-            break;
-        used += (size_t)w;
-    }
-    for (size_t k = 0; k < nw; k++) {
-        sel[k] = sb_standard_order(std, words[k]);
-        if (!sel[k])
-            return cli_usage_error(CMD, "--order: unknown order '%s' in %s "
-                                        "(expected one of: %s)",
-                                   words[k], std->id, known);
-        for (size_t m = 0; m < k; m++)
-            if (sel[m] == sel[k])
-                return cli_usage_error(CMD, "--order: order '%s' named twice "
-                                            "(expected each order once)",
-                                       words[k]);
-    }
-    *n = nw;
-    return CLI_EXIT_OK;
-}
-
 static int write_json(const struct sb_standard *std,
                       const struct sb_order *const *sel, size_t nsel,
                       const double *depths, size_t nd)
@@ -287,7 +244,7 @@ int cmd_limits(int argc, char **argv)
     rc = sb_standard_resolve(std_arg, &storage, &std, &err);
     if (rc != SB_OK)
         return cli_report(CMD, rc, &err);
-    if ((rc = select_orders(std, order_arg, sel, &nsel)) != CLI_EXIT_OK)
+    if ((rc = cli_select_orders(CMD, std, order_arg, sel, &nsel)) != CLI_EXIT_OK)
         return rc;
 
     if (fmt == SB_FORMAT_JSON)

@@ -14,7 +14,6 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-#include <sys/stat.h>
 
 #include "cli.h"
 #include "commands.h"
@@ -85,73 +84,6 @@ void cmd_plan_help(FILE *f)
             "hydrographic authority's\nspecifications, local regulations and "
             "licensed practice.\n",
             SB_STANDARD_DEFAULT_ID, DEFAULT_DEPTHS_TEXT);
-}
-
-/* Pick the orders named in arg (or all); usage error on an unknown one. */
-static int select_orders(const struct sb_standard *std, const char *arg,
-                         const struct sb_order **sel, size_t *n)
-{
-    char buf[1024], known[512];
-    const char *words[SB_STANDARD_ORDERS_MAX];
-    size_t nw, used = 0;
-    int rc;
-
-    if (!arg) {
-        for (int i = 0; i < std->n_orders; i++)
-            sel[i] = &std->orders[i];
-        *n = (size_t)std->n_orders;
-        return CLI_EXIT_OK;
-    }
-    rc = cli_split_words(CMD, "--order", arg, buf, sizeof buf, words,
-                         SB_STANDARD_ORDERS_MAX, &nw);
-    if (rc != CLI_EXIT_OK)
-        return rc;
-    known[0] = '\0';
-    for (int i = 0; i < std->n_orders && used < sizeof known; i++) {
-        int w = snprintf(known + used, sizeof known - used, "%s%s",
-                         i ? ", " : "", std->orders[i].id);
-        if (w < 0)
-            break;
-        used += (size_t)w;
-    }
-    for (size_t k = 0; k < nw; k++) {
-        sel[k] = sb_standard_order(std, words[k]);
-        if (!sel[k])
-            return cli_usage_error(CMD, "--order: unknown order '%s' in %s "
-                                        "(expected one of: %s)",
-                                   words[k], std->id, known);
-        for (size_t m = 0; m < k; m++)
-            if (sel[m] == sel[k])
-                return cli_usage_error(CMD, "--order: order '%s' named twice "
-                                            "(expected each order once)",
-                                       words[k]);
-    }
-    *n = nw;
-    return CLI_EXIT_OK;
-}
-
-/* A word that is neither a compiled-in id nor an existing file is most
- * likely a mistyped id: a usage error, not an I/O failure. */
-static int check_standard_arg(const char *arg)
-{
-    const char *const *ids = sb_standard_builtin_ids();
-    char known[128] = "";
-    struct stat st;
-
-    if (!arg || sb_standard_builtin(arg))
-        return CLI_EXIT_OK;
-    for (size_t i = 0; ids[i]; i++) {
-        size_t used = strlen(known);
-
-        snprintf(known + used, sizeof known - used, "%s%s", ids[i],
-                 ids[i + 1] ? ", " : "");
-    }
-    if (stat(arg, &st) != 0 || S_ISDIR(st.st_mode))
-        return cli_usage_error(CMD, "--standard: '%s' is neither a "
-                                    "compiled-in standard nor an existing "
-                                    "file (expected %s or a YAML file)",
-                               arg, known);
-    return CLI_EXIT_OK;
 }
 
 /* One usable-swath row, with the uncertainty at the edge of the narrower
@@ -483,23 +415,6 @@ static int write_text(const struct sb_system *sys,
     return CLI_EXIT_OK;
 }
 
-/* A system file that does not exist is a usage error (exit 2), like a
- * mistyped option; one that exists but cannot be read is an I/O failure. */
-static int check_system_arg(const char *path)
-{
-    struct stat st;
-
-    if (stat(path, &st) != 0)
-        return cli_usage_error(CMD, "no such file '%s' (expected a system "
-                                    "YAML file, see docs/spec.md)",
-                               path);
-    if (S_ISDIR(st.st_mode))
-        return cli_usage_error(CMD, "'%s' is a directory (expected a system "
-                                    "YAML file)",
-                               path);
-    return CLI_EXIT_OK;
-}
-
 int cmd_plan(int argc, char **argv)
 {
     enum {
@@ -602,10 +517,12 @@ int cmd_plan(int argc, char **argv)
         (rc = cli_parse_range(CMD, "--angles", angles_arg, -90.0, 90.0, 0,
                               angles, MAX_ANGLES, &na)) != CLI_EXIT_OK)
         return rc;
-    if ((rc = check_standard_arg(std_arg)) != CLI_EXIT_OK)
+    if ((rc = cli_check_standard_arg(CMD, std_arg)) != CLI_EXIT_OK)
         return rc;
 
-    if ((rc = check_system_arg(path)) != CLI_EXIT_OK)
+    if ((rc = cli_check_input_file(CMD, "", path, "a system YAML file, see "
+                                                  "docs/spec.md")) !=
+        CLI_EXIT_OK)
         return rc;
     sb_error_clear(&err);
     if ((rc = sb_spec_load(path, &sys, &err)) != SB_OK)
@@ -614,7 +531,7 @@ int cmd_plan(int argc, char **argv)
         rc = cli_report(CMD, rc, &err);
         goto done;
     }
-    if ((rc = select_orders(std, order_arg, sel, &nsel)) != CLI_EXIT_OK)
+    if ((rc = cli_select_orders(CMD, std, order_arg, sel, &nsel)) != CLI_EXIT_OK)
         goto done;
 
     /* options that only make sense against this system */

@@ -21,7 +21,6 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-#include <sys/stat.h>
 
 #include "cli.h"
 #include "commands.h"
@@ -913,31 +912,12 @@ static int write_html(struct ctx *c, FILE *f)
 
 static int pick_head(struct ctx *c, const char *order_arg)
 {
-    char buf[512];
-    const char *words[SB_STANDARD_ORDERS_MAX];
-    size_t nw;
     int rc;
 
     if (order_arg) {
-        if ((rc = cli_split_words(CMD, "--order", order_arg, buf, sizeof buf,
-                                  words, SB_STANDARD_ORDERS_MAX, &nw)))
+        if ((rc = cli_select_orders(CMD, c->std, order_arg, c->sel,
+                                    &c->nsel)))
             return rc;
-        for (size_t k = 0; k < nw; k++) {
-            c->sel[k] = sb_standard_order(c->std, words[k]);
-            if (!c->sel[k])
-                return cli_usage_error(CMD, "--order: unknown order '%s' in "
-                                            "%s (expected an order of the "
-                                            "standard, see 'swathbudget "
-                                            "limits --help')",
-                                       words[k], c->std->id);
-            for (size_t m = 0; m < k; m++)
-                if (c->sel[m] == c->sel[k])
-                    return cli_usage_error(CMD, "--order: order '%s' named "
-                                                "twice (expected each order "
-                                                "once)",
-                                           words[k]);
-        }
-        c->nsel = nw;
         c->head = c->sel[0];
     } else if (c->head) { /* the area's */
         c->sel[0] = c->head;
@@ -950,17 +930,6 @@ static int pick_head(struct ctx *c, const char *order_arg)
         if (!c->head)
             c->head = c->sel[0];
     }
-    return CLI_EXIT_OK;
-}
-
-static int check_file(const char *what, const char *path)
-{
-    struct stat st;
-
-    if (stat(path, &st) != 0 || S_ISDIR(st.st_mode))
-        return cli_usage_error(CMD, "%s '%s' is not an existing file "
-                                    "(expected a YAML file)",
-                               what, path);
     return CLI_EXIT_OK;
 }
 
@@ -1125,10 +1094,12 @@ int cmd_report(int argc, char **argv)
                                     "breakdowns (expected --depths for the "
                                     "report)");
     c->sys_file = argv[optind];
-    if ((rc = check_file("system file", c->sys_file)) ||
-        (c->area_file && (rc = check_file("--area:", c->area_file))) ||
-        (std_arg && !sb_standard_builtin(std_arg) &&
-         (rc = check_file("--standard:", std_arg))))
+    if ((rc = cli_check_input_file(CMD, "", c->sys_file,
+                                   "a system YAML file, see docs/spec.md")) ||
+        (c->area_file &&
+         (rc = cli_check_input_file(CMD, "--area", c->area_file,
+                                    "an area YAML file, see docs/area.md"))) ||
+        (rc = cli_check_standard_arg(CMD, std_arg)))
         return rc;
     if (depths_arg &&
         (rc = cli_parse_values(CMD, "--depths", depths_arg, 0.0, DEPTH_MAX_M,

@@ -16,7 +16,6 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-#include <sys/stat.h>
 #include <unistd.h>
 
 #include "cli.h"
@@ -107,57 +106,6 @@ void cmd_verify_help(FILE *f)
             DEFAULT_DEPTHS_TEXT, DEFAULT_ANGLE_STEP_DEG, SB_MC_TRIALS_MIN,
             SB_MC_TRIALS_MAX, SB_MC_DIGITS_MAX, VERIFY_DIGITS_DEFAULT,
             SB_STANDARD_DEFAULT_ID);
-}
-
-static int check_file_arg(const char *opt, const char *path,
-                          const char *what)
-{
-    struct stat st;
-
-    if (stat(path, &st) != 0)
-        return cli_usage_error(CMD, "%sno such file '%s' (expected %s)", opt,
-                               path, what);
-    if (S_ISDIR(st.st_mode))
-        return cli_usage_error(CMD, "%s'%s' is a directory (expected %s)",
-                               opt, path, what);
-    return CLI_EXIT_OK;
-}
-
-/* Pick the orders named in arg (or all); usage error on an unknown one. */
-static int select_orders(const struct sb_standard *std, const char *arg,
-                         const struct sb_order **sel, size_t *n)
-{
-    char buf[1024];
-    const char *words[SB_STANDARD_ORDERS_MAX];
-    size_t nw;
-    int rc;
-
-    if (!arg) {
-        for (int i = 0; i < std->n_orders; i++)
-            sel[i] = &std->orders[i];
-        *n = (size_t)std->n_orders;
-        return CLI_EXIT_OK;
-    }
-    rc = cli_split_words(CMD, "--order", arg, buf, sizeof buf, words,
-                         SB_STANDARD_ORDERS_MAX, &nw);
-    if (rc != CLI_EXIT_OK)
-        return rc;
-    for (size_t k = 0; k < nw; k++) {
-        sel[k] = sb_standard_order(std, words[k]);
-        if (!sel[k]) {
-            char known[512] = "";
-            for (int i = 0; i < std->n_orders; i++) {
-                size_t used = strlen(known);
-                snprintf(known + used, sizeof known - used, "%s%s",
-                         i ? ", " : "", std->orders[i].id);
-            }
-            return cli_usage_error(CMD, "--order: unknown order '%s' in %s "
-                                        "(expected one of: %s)",
-                                   words[k], std->id, known);
-        }
-    }
-    *n = nw;
-    return CLI_EXIT_OK;
 }
 
 static int write_json(const struct sb_system *sys,
@@ -494,12 +442,9 @@ int cmd_verify(int argc, char **argv)
         (rc = cli_parse_values(CMD, "--angles", angles_arg, -90.0, 90.0, 0,
                                angles, MAX_ANGLES, &na)) != CLI_EXIT_OK)
         return rc;
-    if (std_arg && !sb_standard_builtin(std_arg) &&
-        (rc = check_file_arg("--standard: ", std_arg,
-                             "a compiled-in standard or a YAML file")) !=
-            CLI_EXIT_OK)
+    if ((rc = cli_check_standard_arg(CMD, std_arg)) != CLI_EXIT_OK)
         return rc;
-    if ((rc = check_file_arg("", path, "a system YAML file, see "
+    if ((rc = cli_check_input_file(CMD, "", path, "a system YAML file, see "
                                        "docs/spec.md")) != CLI_EXIT_OK)
         return rc;
 
@@ -510,7 +455,7 @@ int cmd_verify(int argc, char **argv)
         rc = cli_report(CMD, rc, &err);
         goto done;
     }
-    if ((rc = select_orders(std, order_arg, sel, &nsel)) != CLI_EXIT_OK)
+    if ((rc = cli_select_orders(CMD, std, order_arg, sel, &nsel)) != CLI_EXIT_OK)
         goto done;
 
     /* checks that need the system */
