@@ -147,6 +147,9 @@ START_TEST(deep_profile)
                             0.2 / sqrt(-2.0 * log(0.05)), 1e-9);
     ck_assert_double_eq_tol(s.conditions.heave_amplitude, 1.5, TOL);
     ck_assert_double_eq_tol(s.conditions.roll_period, 12.0, TOL);
+    /* the demo traces three casts of one survey day */
+    ck_assert_int_eq(s.sound_speed.model, SB_COLUMN_CASTS);
+    sb_system_release(&s);
 }
 END_TEST
 
