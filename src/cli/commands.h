@@ -16,5 +16,7 @@ SB_DECLARE_COMMAND(raytrace);
 SB_DECLARE_COMMAND(verify);
 SB_DECLARE_COMMAND(compare);
 SB_DECLARE_COMMAND(report);
+SB_DECLARE_COMMAND(audit);
+SB_DECLARE_COMMAND(simulate);
 
 #endif

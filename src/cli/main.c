@@ -36,6 +36,10 @@ static const struct command commands[] = {
      "systems side by side: usable swath, survey effort, what-if"},
     {"report", cmd_report, cmd_report_help,
      "a self-contained HTML report for a client, or one plot as SVG"},
+    {"audit", cmd_audit, cmd_audit_help,
+     "check a finished survey's soundings against the order"},
+    {"simulate", cmd_simulate, cmd_simulate_help,
+     "write an invented survey (soundings CSV) for demos and tests"},
 };
 
 #define N_COMMANDS (sizeof commands / sizeof commands[0])
