@@ -19,6 +19,7 @@
  */
 #include <check.h>
 #include <dirent.h>
+#include <stdint.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -908,6 +909,146 @@ START_TEST(test_buffer_boundaries)
 }
 END_TEST
 
+/* The inline short-number parser (decimal.h) on fields straight from the
+ * reader's buffer -- what the audit's hot loop does, relying on the
+ * padding promised in csvread.h -- must give exactly what
+ * sb_csv_field_double gives: the same status and the same bits, for short
+ * and long forms, quoted fields, blanks, and fields at the very end of the
+ * buffer (small buffers); and sb_csv_fields_double the same as one field
+ * at a time.  Independent check: every accepted plain field equals the C
+ * library's strtod of its '.' spelling, bit for bit. */
+static unsigned long long xs_state;
+
+static unsigned xs_next(unsigned n)
+{
+    xs_state ^= xs_state << 13; /* xorshift64 (Marsaglia 2003) */
+    xs_state ^= xs_state >> 7;
+    xs_state ^= xs_state << 17;
+    return (unsigned)(xs_state % n);
+}
+
+static size_t random_field(char *s, char mark)
+{
+    size_t n = 0;
+    unsigned i, kind = xs_next(10), ni = xs_next(10), nf = xs_next(11);
+    int quoted = kind == 7;
+
+    if (quoted)
+        s[n++] = '"';
+    if (kind == 8)
+        s[n++] = ' ';
+    if (xs_next(2))
+        s[n++] = xs_next(4) ? '-' : '+';
+    for (i = 0; i < ni; i++)
+        s[n++] = (char)('0' + xs_next(10));
+    if (xs_next(6))
+        s[n++] = mark;
+    for (i = 0; i < nf; i++)
+        s[n++] = (char)('0' + xs_next(10));
+    if (kind == 9)
+        n += (size_t)sprintf(s + n, "e%d", (int)xs_next(40) - 20);
+    if (kind == 6 && n > 0) /* a stray byte */
+        s[xs_next((unsigned)n)] = "x.,+- "[xs_next(6)];
+    if (quoted)
+        s[n++] = '"';
+    return n;
+}
+
+static uint64_t bits_of(double x)
+{
+    uint64_t u;
+    memcpy(&u, &x, sizeof u);
+    return u;
+}
+
+START_TEST(test_short_parser_on_fields)
+{
+    static const size_t sizes[] = {64, 97, 0};
+    static const char marks[2][2] = {{',', '.'}, {';', ','}};
+    const int nrows = 3000;
+    char *data = malloc((size_t)nrows * 3 * 48 + 64);
+    size_t n, s;
+    int m, i, checked = 0, accepted = 0;
+
+    ck_assert_ptr_nonnull(data);
+    for (m = 0; m < 2; m++) {
+        const char d = marks[m][0], mark = marks[m][1];
+        const char *p;
+
+        xs_state = 0x2545F4914F6CDD1DULL + (unsigned long long)m;
+        n = (size_t)sprintf(data, "a%cb%cc\n", d, d);
+        for (i = 0; i < nrows; i++) {
+            n += random_field(data + n, mark);
+            data[n++] = d;
+            n += random_field(data + n, mark);
+            data[n++] = d;
+            n += random_field(data + n, mark);
+            data[n++] = '\n';
+        }
+        p = write_file(m ? "short_semi.csv" : "short_comma.csv", data, n);
+        for (s = 0; s < sizeof sizes / sizeof sizes[0]; s++) {
+            struct sb_csv *c = open_ok(p, d, mark, sizes[s]);
+            struct sb_csv_row row;
+            static const int cols[3] = {0, 1, 2};
+
+            while (sb_csv_next(c, &row, NULL) == 1) {
+                double all[3];
+                int bad = -2, rall, k, first_bad = -1, first_r = SB_CSV_OK;
+
+                if (row.reason != SB_CSV_OK)
+                    continue;
+                for (k = 0; k < 3; k++) {
+                    const struct sb_csv_field *f = &row.field[k];
+                    double v = 1.5, w = 2.5, x = 3.5;
+                    int r = sb_csv_field_double(c, &row, k, &v);
+                    int rp = sb_decimal_parse_padded(f->text, f->len, mark,
+                                                     &w);
+
+                    checked++;
+                    ck_assert_int_eq(r, rp);
+                    if (r == SB_CSV_OK)
+                        ck_assert(bits_of(v) == bits_of(w));
+                    else if (first_bad < 0) {
+                        first_bad = k;
+                        first_r = r;
+                    }
+                    if (f->len >= 1 && f->len <= SB_DECIMAL_SHORT_MAX &&
+                        sb_decimal_parse_short_padded(f->text, f->len, mark,
+                                                      &x)) {
+                        char ref[32];
+                        size_t j;
+
+                        accepted++;
+                        ck_assert_int_eq(r, SB_CSV_OK);
+                        ck_assert_msg(bits_of(x) == bits_of(v),
+                                      "'%.*s': inline %a, reader %a",
+                                      (int)f->len, f->text, x, v);
+                        for (j = 0; j < f->len; j++)
+                            ref[j] = f->text[j] == mark ? '.' : f->text[j];
+                        ref[j] = '\0';
+                        ck_assert_msg(bits_of(strtod(ref, NULL)) ==
+                                          bits_of(x),
+                                      "'%s': inline %a", ref, x);
+                    }
+                }
+                rall = sb_csv_fields_double(c, &row, cols, 3, all, &bad);
+                ck_assert_int_eq(rall, first_r);
+                if (first_bad >= 0)
+                    ck_assert_int_eq(bad, first_bad);
+            }
+            sb_csv_close(c);
+        }
+    }
+    free(data);
+    /* the corpus must exercise both sides (where the inline parser
+     * exists: without SSE2 it declines everything, decimal.h) */
+    ck_assert_msg(SB_DECIMAL_SHORT_INLINE ? accepted > checked / 4 &&
+                                                accepted < checked
+                                          : accepted == 0,
+                  "%d of %d fields took the inline path", accepted, checked);
+}
+END_TEST
+
 /* ------------------------------------------------------------------ run */
 
 static Suite *csvread_suite(void)
@@ -930,6 +1071,7 @@ static Suite *csvread_suite(void)
     tcase_add_test(tc, test_very_long_line);
     tcase_add_test(tc, test_long_quoted_rows_small_buffer);
     tcase_add_test(tc, test_buffer_boundaries);
+    tcase_add_test(tc, test_short_parser_on_fields);
     suite_add_tcase(s, tc);
     return s;
 }

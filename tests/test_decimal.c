@@ -397,6 +397,71 @@ static void random_corpus(char mark, long count, unsigned long seed)
                   bad, count);
 }
 
+/* The inline fast path of sb_decimal_parse_padded (decimal.h) takes
+ * [sign] digits [mark digits], 1 to 15 digits and at most 16 bytes after
+ * the sign; random texts around those limits (0-12 digits on each side,
+ * an optional stray character, either mark) must give bit for bit
+ * what strtod gives (or be refused when strtod would not read them all):
+ * the "agree" check above, which also compares with sb_decimal_parse. */
+static size_t short_text(gsl_rng *r, char *s, char mark)
+{
+    static const char stray[] = "+-.,eE x0";
+    unsigned long i, ni = gsl_rng_uniform_int(r, 13),
+                     nf = gsl_rng_uniform_int(r, 13);
+    size_t n = 0;
+
+    if (gsl_rng_uniform_int(r, 2))
+        s[n++] = gsl_rng_uniform_int(r, 3) ? '-' : '+';
+    for (i = 0; i < ni; i++)
+        s[n++] = (char)('0' + gsl_rng_uniform_int(r, 10));
+    if (gsl_rng_uniform_int(r, 5))
+        s[n++] = mark;
+    for (i = 0; i < nf; i++)
+        s[n++] = (char)('0' + gsl_rng_uniform_int(r, 10));
+    if (gsl_rng_uniform_int(r, 8) == 0) /* a stray character somewhere */
+        s[gsl_rng_uniform_int(r, n + 1)] =
+            stray[gsl_rng_uniform_int(r, sizeof stray - 1)];
+    return n;
+}
+
+START_TEST(test_short_forms)
+{
+    gsl_rng *r = gsl_rng_alloc(gsl_rng_mt19937);
+    char s[64], ref[64];
+    long i, bad = 0, shown = 0;
+
+    ck_assert_ptr_nonnull(r);
+    gsl_rng_set(r, 4242UL);
+    for (i = 0; i < 400000; i++) {
+        char mark = i % 2 ? ',' : '.';
+        size_t n = short_text(r, s, mark), k;
+        char *endp;
+        double v = 0.0, w = 0.0;
+        int rc = sb_decimal_parse(s, n, mark, &v);
+        int rp = padded(s, n, mark, &w);
+
+        for (k = 0; k < n; k++)
+            ref[k] = s[k] == mark ? '.' : s[k];
+        ref[n] = '\0';
+        /* strtod reads it all and it is in our grammar (no blanks, no
+         * exponent, no other mark): then it must agree bit for bit */
+        if (n > 0 && !strpbrk(ref, " eExX") &&
+            !memchr(s, mark == '.' ? ',' : '.', n) &&
+            (strtod(ref, &endp), endp == ref + n))
+            bad += !agree(s, n, mark, &shown);
+        else if (rp != rc ||
+                 (rc == SB_DECIMAL_OK && bits_of(v) != bits_of(w))) {
+            if (shown++ < 5)
+                fprintf(stderr, "padded differs on '%.*s': %d vs %d\n",
+                        (int)n, s, rp, rc);
+            bad++;
+        }
+    }
+    gsl_rng_free(r);
+    ck_assert_msg(bad == 0, "%ld short texts disagree", bad);
+}
+END_TEST
+
 START_TEST(test_random_point)
 {
     random_corpus('.', 1000000, 20240611UL);
@@ -419,6 +484,7 @@ static Suite *decimal_suite(void)
     tcase_add_test(tc, test_rejects);
     tcase_add_test(tc, test_bounds);
     tcase_add_test(tc, test_hard_cases);
+    tcase_add_test(tc, test_short_forms);
     tcase_set_timeout(tr, 600);
     tcase_add_test(tr, test_random_point);
     tcase_add_test(tr, test_random_comma);

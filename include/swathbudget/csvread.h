@@ -80,7 +80,11 @@ struct sb_csv_options {
 /* One field of the current row: a view into the reader's buffer, valid
  * until the next sb_csv_next or sb_csv_close.  Quotes are already removed
  * ('""' turned into '"'); surrounding blanks are still there.  Its
- * position in the file: sb_csv_field_pos. */
+ * position in the file: sb_csv_field_pos.  At least SB_DECIMAL_PAD bytes
+ * after text + len can be read (the buffer has that slack), so a field
+ * may go straight to sb_decimal_parse_padded or
+ * sb_decimal_parse_short_padded (decimal.h) with the file's decimal mark:
+ * that gives what sb_csv_field_double gives for a field of a usable row. */
 struct sb_csv_field {
     const char *text; /* not NUL-terminated */
     size_t len;

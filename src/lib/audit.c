@@ -495,9 +495,17 @@ static long line_find(struct sb_audit *a, const char *s, size_t n)
     struct line_stats *l;
 
     if (a->have_last) {
+        /* rows come in line order: almost always the line of the last
+         * row; names are short, a byte loop beats a call to memcmp */
+        size_t i = 0;
+
         l = &a->lines[a->last_line];
-        if (l->len == n && memcmp(l->r.name, s, n) == 0)
-            return (long)a->last_line;
+        if (l->len == n) {
+            while (i < n && l->r.name[i] == s[i])
+                i++;
+            if (i == n)
+                return (long)a->last_line;
+        }
     }
     k = name_hash(s, n) & (a->index_slots - 1);
     while (a->line_index[k] >= 0) {
@@ -742,6 +750,8 @@ int sb_audit_add_reference(struct sb_audit *a, double x_m, double y_m,
 /* Column indices of a file. */
 struct colmap {
     int line, x, y, z, angle, tpu_v, tpu_h; /* -1 = not mapped */
+    int num[4], n_num; /* x, y, z and (when mapped) angle, in order */
+    char mark;         /* the file's decimal mark */
 };
 
 static int map_columns(const struct sb_csv *csv,
@@ -771,6 +781,12 @@ static int map_columns(const struct sb_csv *csv,
     if (need_line && c->tpu_h[0] &&
         (rc = sb_csv_map(csv, c->tpu_h, &m->tpu_h, err)) != SB_OK)
         return rc;
+    m->num[0] = m->x;
+    m->num[1] = m->y;
+    m->num[2] = m->z;
+    m->num[3] = m->angle;
+    m->n_num = m->angle >= 0 ? 4 : 3;
+    m->mark = sb_csv_decimal_mark(csv);
     return SB_OK;
 }
 
@@ -807,8 +823,7 @@ static int parse_row(const struct sb_csv *csv, const struct sb_csv_row *row,
                      int *csv_reason, const char **own)
 {
     int r;
-    const int num[4] = {m->x, m->y, m->z, m->angle};
-    double *dst[4] = {&p->x, &p->y, &p->z, &p->angle};
+    double v[4] = {0, 0, 0, 0};
 
     *bad_col = -1;
     *own = NULL;
@@ -832,18 +847,28 @@ static int parse_row(const struct sb_csv *csv, const struct sb_csv_row *row,
             return SB_AUDIT_UNPARSABLE;
         }
     }
-    p->angle = 0;
-    for (int i = 0; i < 4; i++) {
-        if (num[i] < 0)
+    /* x, y, z, angle in this order: the first that fails is reported.
+     * The short plain form is parsed inline (the reader guarantees the
+     * padding, csvread.h); anything else goes through the reader, which
+     * gives the same value for the short form and the reason otherwise. */
+    for (int i = 0; i < m->n_num; i++) {
+        const struct sb_csv_field *f = &row->field[m->num[i]];
+
+        if (f->len - 1 < SB_DECIMAL_SHORT_MAX &&
+            sb_decimal_parse_short_padded(f->text, f->len, m->mark,
+                                          &v[i]))
             continue;
-        r = sb_csv_field_double(csv, row, num[i], dst[i]);
+        r = sb_csv_field_double(csv, row, m->num[i], &v[i]);
         if (r != SB_CSV_OK) {
-            *bad_col = num[i];
+            *bad_col = m->num[i];
             *csv_reason = r;
             return reason_of(csv, row, r);
         }
     }
-    p->angle *= DEG;
+    p->x = v[0];
+    p->y = v[1];
+    p->z = v[2];
+    p->angle = m->n_num == 4 ? v[3] * DEG : 0;
     p->tpu_v = p->tpu_h = NAN;
     if (m->tpu_v >= 0) {
         r = sb_csv_field_double(csv, row, m->tpu_v, &p->tpu_v);

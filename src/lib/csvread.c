@@ -458,7 +458,8 @@ static int skip_long_row(struct sb_csv *c, struct sb_error *err)
 
 /* Common end of a split row: the ragged check, line bookkeeping, and the
  * move to the next row (at index next).  Returns 1 (a row). */
-static int finish_row(struct sb_csv *c, struct sb_csv_row *row, size_t next)
+static inline int finish_row(struct sb_csv *c, struct sb_csv_row *row,
+                             size_t next)
 {
     if (row->reason == SB_CSV_OK && row->nfields != c->ncols) {
         row->reason = SB_CSV_RAGGED;
@@ -1095,7 +1096,12 @@ int sb_csv_fields_double(const struct sb_csv *c, const struct sb_csv_row *row,
             r = SB_CSV_NO_FIELD;
         } else {
             f = &row->field[cols[i]];
-            r = sb_decimal_parse_padded(f->text, f->len, c->mark, &out[i]);
+            /* the short form inline, no call (the buffer has the pad) */
+            if (f->len - 1 < SB_DECIMAL_SHORT_MAX &&
+                sb_decimal_parse_short_padded(f->text, f->len, c->mark,
+                                              &out[i]))
+                continue;
+            r = sb_decimal_parse(f->text, f->len, c->mark, &out[i]);
         }
         if (r != SB_CSV_OK) {
             if (bad)

@@ -319,90 +319,13 @@ int sb_decimal_parse(const char *s, size_t len, char decimal_mark,
     return SB_DECIMAL_OK;
 }
 
-/* SWAR ("SIMD within a register") parsing of the plain form
- * [sign] up to 7 digits [mark up to 7 digits], 8 bytes at a time and
- * without a branch per digit; needs the little-endian byte order. */
-#if SB_DECIMAL_FAST && defined(__BYTE_ORDER__) && defined(__GNUC__) &&      \
-    __BYTE_ORDER__ == __ORDER_LITTLE_ENDIAN__
-#define SB_DECIMAL_SWAR 1
-
-/* Bytes of w (first text byte lowest) minus '0'; and a mask with the high
- * bit set in the bytes that are not digits.  A carry out of a non-digit
- * byte can only reach later bytes, so the FIRST non-digit is exact. */
-static uint64_t swar_nondigit(uint64_t w, uint64_t *digits)
-{
-    const uint64_t x = w ^ UINT64_C(0x3030303030303030);
-    *digits = x;
-    return ((x & UINT64_C(0xF0F0F0F0F0F0F0F0)) |
-            ((x + UINT64_C(0x0606060606060606)) &
-             UINT64_C(0xF0F0F0F0F0F0F0F0)));
-}
-
-/* The value of the first n (1..7) digit bytes of x (values 0..9). */
-static uint64_t swar_value(uint64_t x, int n)
-{
-    /* Right-align the n digits as the last of eight, zeros in front, then
-     * combine pairs, quads, octets with three multiplications: the
-     * eight-digit conversion of simdjson / fast_float
-     * (parse_eight_digits_unrolled, D. Lemire and co-authors; constants
-     * from memory, checked by tests/test_decimal.c against strtod). */
-    x <<= 8 * (8 - n);
-    x = x * 10u + (x >> 8);
-    x = (((x & UINT64_C(0x000000FF000000FF)) * UINT64_C(0x000F424000000064)) +
-         (((x >> 16) & UINT64_C(0x000000FF000000FF)) *
-          UINT64_C(0x0000271000000001))) >> 32;
-    return x;
-}
-
-/* 1 and *out set when [s, s+len) is the plain form above; 0 otherwise
- * (the caller then runs the full parser).  Reads up to 18 bytes from s. */
-static int swar_plain(const char *s, size_t len, char mark, double *out)
-{
-    const char *p = s, *end = s + len;
-    uint64_t w, x, y, nd, ip, fp = 0;
-    int neg = *p == '-', n1, n2 = 0;
-    double v;
-
-    p += neg | (*p == '+');
-    memcpy(&w, p, 8);
-    nd = swar_nondigit(w, &x);
-    if (!nd)
-        return 0; /* 8 digits or more: not the short form */
-    n1 = __builtin_ctzll(nd) >> 3;
-    ip = n1 ? swar_value(x, n1) : 0;
-    p += n1;
-    if (p < end && *p == mark) {
-        p++;
-        memcpy(&w, p, 8);
-        nd = swar_nondigit(w, &y);
-        if (!nd)
-            return 0;
-        n2 = __builtin_ctzll(nd) >> 3;
-        if (n2) {
-            fp = swar_value(y, n2);
-            ip = ip * u64_pow10[n2] + fp;
-        }
-        p += n2;
-    }
-    if (p != end || n1 + n2 == 0)
-        return 0;
-    v = (double)(int64_t)ip; /* at most 14 digits: exact */
-    if (n2)
-        v /= exact_pow10[n2]; /* one rounding: Clinger 1990 */
-    *out = neg ? -v : v;
-    return 1;
-}
-#else
-#define SB_DECIMAL_SWAR 0
-#endif
-
 int sb_decimal_parse_padded(const char *s, size_t len, char decimal_mark,
                             double *out)
 {
-#if SB_DECIMAL_SWAR
-    if (len > 0 && len <= 16 && swar_plain(s, len, decimal_mark, out))
+    /* the short form inline (decimal.h), the rest in full */
+    if (len - 1 < SB_DECIMAL_SHORT_MAX &&
+        sb_decimal_parse_short_padded(s, len, decimal_mark, out))
         return SB_DECIMAL_OK;
-#endif
     return sb_decimal_parse(s, len, decimal_mark, out);
 }
 

@@ -69,9 +69,16 @@ static inline double node_angle(const struct sb_tvutable *t,
                        : -t->angle_max + 2.0 * t->angle_max * i / o->n_a;
 }
 
-/* Bilinear interpolation inside a built octave; depth within it. */
-static inline void interp(const struct sb_tvutable *t, const struct octave *o,
-                          double depth, double angle, double *tvu, double *thu)
+/* Bilinear interpolation inside a built octave; depth within it.  Always
+ * inlined: it is most of a lookup, which an audit makes per sounding. */
+#if defined(__GNUC__)
+#define ALWAYS_INLINE inline __attribute__((always_inline))
+#else
+#define ALWAYS_INLINE inline
+#endif
+static ALWAYS_INLINE void interp(const struct sb_tvutable *t,
+                                 const struct octave *o, double depth,
+                                 double angle, double *tvu, double *thu)
 {
     double x = (depth * o->inv_base - 1.0) * o->n_d;
     double y = (angle + t->angle_max) * o->inv_h_a;
