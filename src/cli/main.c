@@ -68,6 +68,18 @@ static void overview(FILE *f)
                "specifications, local regulations and licensed practice.\n");
 }
 
+/* What --version and help printed must have reached stdout: a full disk
+ * or a closed pipe is a failure (exit 1), not a silent success. */
+static int stdout_status(void)
+{
+    if (fflush(stdout) != 0 || ferror(stdout)) {
+        fprintf(stderr, "swathbudget: write error on the output (expected a "
+                        "writable output)\n");
+        return CLI_EXIT_FAIL;
+    }
+    return CLI_EXIT_OK;
+}
+
 int main(int argc, char **argv)
 {
     const struct command *c;
@@ -82,16 +94,16 @@ int main(int argc, char **argv)
     }
     if (strcmp(argv[1], "--version") == 0 || strcmp(argv[1], "version") == 0) {
         printf("swathbudget %s\n", PACKAGE_VERSION);
-        return CLI_EXIT_OK;
+        return stdout_status();
     }
     if (strcmp(argv[1], "--help") == 0 || strcmp(argv[1], "-h") == 0) {
         overview(stdout);
-        return CLI_EXIT_OK;
+        return stdout_status();
     }
     if (strcmp(argv[1], "help") == 0) {
         if (argc < 3) {
             overview(stdout);
-            return CLI_EXIT_OK;
+            return stdout_status();
         }
         c = find(argv[2]);
         if (!c) {
@@ -101,7 +113,7 @@ int main(int argc, char **argv)
             return CLI_EXIT_INPUT;
         }
         c->help(stdout);
-        return CLI_EXIT_OK;
+        return stdout_status();
     }
     c = find(argv[1]);
     if (!c) {

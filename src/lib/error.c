@@ -15,6 +15,16 @@ void sb_error_clear(struct sb_error *err)
     err->msg[0] = '\0';
 }
 
+/* A message must stay on one line even when it quotes input text (a YAML
+ * key or a CSV column name may hold a line break): control characters
+ * become '?'. */
+static void one_line(char *s)
+{
+    for (; *s; s++)
+        if ((unsigned char)*s < 0x20 || *s == 0x7f)
+            *s = '?';
+}
+
 void sb_error_at(struct sb_error *err, const char *file, int line, int col)
 {
     if (!err)
@@ -35,6 +45,7 @@ int sb_error_set(struct sb_error *err, int code, const char *file, int line,
     va_start(ap, fmt);
     vsnprintf(err->msg, sizeof err->msg, fmt, ap);
     va_end(ap);
+    one_line(err->msg);
     return code;
 }
 
@@ -59,6 +70,7 @@ void sb_error_prefix(struct sb_error *err, const char *prefix)
     memcpy(tmp + lp + 2, err->msg, lm);
     tmp[lp + 2 + lm] = '\0';
     memcpy(err->msg, tmp, sizeof tmp);
+    one_line(err->msg);
 }
 
 void sb_error_format(const struct sb_error *err, char *buf, size_t n)
@@ -74,6 +86,7 @@ void sb_error_format(const struct sb_error *err, char *buf, size_t n)
                  err->msg);
     else
         snprintf(buf, n, "%s", err->msg);
+    one_line(buf); /* also for messages written into err->msg directly */
 }
 
 const char *sb_strerror(int code)

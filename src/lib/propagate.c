@@ -35,6 +35,18 @@ static double fixed_step(int c)
     }
 }
 
+/* The difference step for component c of standard uncertainty u > 0: a
+ * fraction of u, so that the secant spans the figure's own scale, but not
+ * below a floor far under any meaningful figure -- a step that underflows
+ * (u subnormal, e.g. "1e-320 deg") would make the difference quotient
+ * 0 * inf = NaN instead of the derivative. */
+static inline double step_for(int c, double u)
+{
+    const double lo = 1e-3 * fixed_step(c);
+    const double h = SB_JAC_STEP * u;
+    return h > lo ? h : lo;
+}
+
 /* d e / d x_c by a central difference with step h; dx is all zero on entry
  * and on return. */
 static inline void central(const struct sb_beam *b, double *dx, int c, double h,
@@ -62,7 +74,7 @@ void sb_jacobian(const struct sb_beam *b, double j[SB_COMP_COUNT][3])
 {
     double dx[SB_COMP_COUNT] = { 0 };
     for (int c = 0; c < SB_COMP_COUNT; c++) {
-        const double h = b->u[c] > 0.0 ? SB_JAC_STEP * b->u[c] : fixed_step(c);
+        const double h = b->u[c] > 0.0 ? step_for(c, b->u[c]) : fixed_step(c);
         central(b, dx, c, h, j[c]);
     }
 }
@@ -79,7 +91,7 @@ int sb_propagate(const struct sb_beam *b, const struct sb_horiz95 *h95,
         if (!(u > 0.0))
             continue;
         double j[3];
-        central(b, dx, c, SB_JAC_STEP * u, j);
+        central(b, dx, c, step_for(c, u), j);
         const double ce = j[0] * u, cn = j[1] * u, cz = j[2] * u;
         vee += ce * ce;
         ven += ce * cn;

@@ -143,9 +143,14 @@ static int fail_at(struct builder *b, const yaml_mark_t *m, const char *fmt,
 
     sb_error_at(b->err, b->doc->name, (int)m->line + 1, (int)m->column + 1);
     if (b->err) {
+        char msg[SB_ERROR_MSG_MAX];
+
         va_start(ap, fmt);
-        vsnprintf(b->err->msg, sizeof b->err->msg, fmt, ap);
+        vsnprintf(msg, sizeof msg, fmt, ap);
         va_end(ap);
+        /* through sb_error_set, which keeps the message on one line */
+        sb_error_set(b->err, SB_EINPUT, b->doc->name, (int)m->line + 1,
+                     (int)m->column + 1, "%s", msg);
     }
     return SB_EINPUT;
 }
@@ -526,15 +531,17 @@ int sb_ydoc_error(const struct sb_ydoc *doc, const struct sb_ynode *node,
                   struct sb_error *err, const char *fmt, ...)
 {
     va_list ap;
+    char msg[SB_ERROR_MSG_MAX];
 
     if (!err)
         return SB_EINPUT;
-    sb_error_at(err, sb_ydoc_name(doc), node ? node->line : 1,
-                node ? node->col : 1);
     va_start(ap, fmt);
-    vsnprintf(err->msg, sizeof err->msg, fmt, ap);
+    vsnprintf(msg, sizeof msg, fmt, ap);
     va_end(ap);
-    return SB_EINPUT;
+    /* through sb_error_set, which keeps the message on one line */
+    return sb_error_set(err, SB_EINPUT, sb_ydoc_name(doc),
+                        node ? node->line : 1, node ? node->col : 1, "%s",
+                        msg);
 }
 
 const char *sb_ynode_kind_name(const struct sb_ynode *node)

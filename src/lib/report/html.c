@@ -5,6 +5,7 @@
  */
 #include "swathbudget/html.h"
 
+#include <ctype.h>
 #include <stdio.h>
 #include <string.h>
 
@@ -48,8 +49,40 @@ static void put(struct sb_html *h, const char *s)
     fputs(s, h->f);
 }
 
+/* 1 if s holds a word printf makes of a non-finite double ("nan",
+ * "-nan", "inf", "-inf", "+inf"; lowercase, as %f and %g write them),
+ * standing alone: cells and paragraphs arrive here already formatted, so
+ * this is where a NaN or infinity would slip into the page. */
+static int has_nonfinite_word(const char *s)
+{
+    const char *p = s;
+
+    while ((p = strpbrk(p, "ni")) != NULL) {
+        const char *start = p;
+        size_t n = strncmp(p, "nan", 3) == 0 || strncmp(p, "inf", 3) == 0
+                       ? 3
+                       : 0;
+
+        if (n) {
+            if (start > s && (start[-1] == '-' || start[-1] == '+'))
+                start--;
+            if ((start == s || !isalnum((unsigned char)start[-1])) &&
+                !isalnum((unsigned char)p[n]) && p[n] != '_')
+                return 1;
+        }
+        p++;
+    }
+    return 0;
+}
+
 static void text(struct sb_html *h, const char *s)
 {
+    if (has_nonfinite_word(s) && h->status == SB_OK) {
+        h->status = SB_EINTERNAL;
+        snprintf(h->what, sizeof h->what,
+                 "a non-finite number reached the HTML writer in '%.80s' "
+                 "(this is a bug)", s);
+    }
     sb_xml_text(h->f, s);
 }
 
