@@ -337,3 +337,14 @@ int cli_select_orders(const char *cmd, const struct sb_standard *std,
     *n = nw;
     return CLI_EXIT_OK;
 }
+
+int cli_one_system_file(const char *cmd, int argc, char **argv)
+{
+    if (optind >= argc)
+        return cli_usage_error(cmd, "no system file given (expected "
+                                    "SYSTEM.yaml)");
+    if (optind + 1 < argc)
+        return cli_usage_error(cmd, "unexpected argument '%s' (expected one "
+                                    "system file)", argv[optind + 1]);
+    return CLI_EXIT_OK;
+}

@@ -92,6 +92,10 @@ int cli_select_orders(const char *cmd, const struct sb_standard *std,
                       const char *arg, const struct sb_order **sel,
                       size_t *n);
 
+/* After getopt: exactly one positional argument, the system file, left in
+ * argv[optind]; otherwise a usage error. */
+int cli_one_system_file(const char *cmd, int argc, char **argv);
+
 /* Print "swathbudget CMD: unknown option ..." for getopt's '?' case. */
 int cli_bad_option(const char *cmd, int argc, char **argv);
 

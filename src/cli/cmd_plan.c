@@ -492,12 +492,8 @@ int cmd_plan(int argc, char **argv)
             return cli_bad_option(CMD, argc, argv);
         }
     }
-    if (optind >= argc)
-        return cli_usage_error(CMD, "no system file given (expected "
-                                    "SYSTEM.yaml)");
-    if (optind + 1 < argc)
-        return cli_usage_error(CMD, "unexpected argument '%s' (expected one "
-                                    "system file)", argv[optind + 1]);
+    if ((rc = cli_one_system_file(CMD, argc, argv)) != CLI_EXIT_OK)
+        return rc;
     path = argv[optind];
     if (!depth_opt) {
         nd = sizeof default_depths / sizeof default_depths[0];

@@ -191,55 +191,34 @@ static int get_text(const struct sb_ydoc *doc, const struct sb_ynode *node,
     return SB_OK;
 }
 
-static int load_tvu(const struct sb_ydoc *doc, const struct sb_ynode *map,
-                    const char *path, struct sb_order *o, struct sb_error *err)
+/* A limit written as a length plus a fraction of depth, both required and
+ * not both zero: tvu {a, b} (TVU = sqrt(a^2 + (b d)^2)) and thu {constant,
+ * depth_fraction} (THU = constant + fraction d) have the same shape. */
+static int load_limit(const struct sb_ydoc *doc, const struct sb_ynode *map,
+                      const char *path, const char *len_key,
+                      const char *frac_key, double *len_m, double *frac,
+                      struct sb_error *err)
 {
-    static const char *const keys[] = {"a", "b", NULL};
-    const struct sb_ynode *a, *b;
+    const char *const keys[] = {len_key, frac_key, NULL};
+    const struct sb_ynode *l, *f;
     char what[LEAF_PATH_MAX];
     int rc;
 
     if ((rc = sb_ynode_expect_map(doc, map, path, err)) ||
         (rc = sb_ymap_check_keys(doc, map, path, keys, err)) ||
-        (rc = sb_ymap_require(doc, map, "a", path, &a, err)) ||
-        (rc = sb_ymap_require(doc, map, "b", path, &b, err)))
+        (rc = sb_ymap_require(doc, map, len_key, path, &l, err)) ||
+        (rc = sb_ymap_require(doc, map, frac_key, path, &f, err)))
         return rc;
-    snprintf(what, sizeof what, "%s.a", path);
-    if ((rc = get_length(doc, a, what, &o->tvu_a_m, err)))
+    snprintf(what, sizeof what, "%s.%s", path, len_key);
+    if ((rc = get_length(doc, l, what, len_m, err)))
         return rc;
-    snprintf(what, sizeof what, "%s.b", path);
-    if ((rc = get_fraction(doc, b, what, &o->tvu_b, err)))
+    snprintf(what, sizeof what, "%s.%s", path, frac_key);
+    if ((rc = get_fraction(doc, f, what, frac, err)))
         return rc;
-    if (o->tvu_a_m == 0.0 && o->tvu_b == 0.0)
+    if (*len_m == 0.0 && *frac == 0.0)
         return sb_ydoc_error(doc, map, err,
-                             "%s: a and b are both zero (expected a limit above zero)",
-                             path);
-    return SB_OK;
-}
-
-static int load_thu(const struct sb_ydoc *doc, const struct sb_ynode *map,
-                    const char *path, struct sb_order *o, struct sb_error *err)
-{
-    static const char *const keys[] = {"constant", "depth_fraction", NULL};
-    const struct sb_ynode *c, *f;
-    char what[LEAF_PATH_MAX];
-    int rc;
-
-    if ((rc = sb_ynode_expect_map(doc, map, path, err)) ||
-        (rc = sb_ymap_check_keys(doc, map, path, keys, err)) ||
-        (rc = sb_ymap_require(doc, map, "constant", path, &c, err)) ||
-        (rc = sb_ymap_require(doc, map, "depth_fraction", path, &f, err)))
-        return rc;
-    snprintf(what, sizeof what, "%s.constant", path);
-    if ((rc = get_length(doc, c, what, &o->thu_c_m, err)))
-        return rc;
-    snprintf(what, sizeof what, "%s.depth_fraction", path);
-    if ((rc = get_fraction(doc, f, what, &o->thu_frac, err)))
-        return rc;
-    if (o->thu_c_m == 0.0 && o->thu_frac == 0.0)
-        return sb_ydoc_error(doc, map, err,
-                             "%s: constant and depth_fraction are both zero "
-                             "(expected a limit above zero)", path);
+                             "%s: %s and %s are both zero (expected a limit "
+                             "above zero)", path, len_key, frac_key);
     return SB_OK;
 }
 
@@ -361,10 +340,12 @@ static int load_order(const struct sb_ydoc *doc, const struct sb_ynode *map,
     if ((rc = get_text(doc, n[1], what, o->name, sizeof o->name, err)))
         return rc;
     snprintf(what, sizeof what, "%s.tvu", path);
-    if ((rc = load_tvu(doc, n[2], what, o, err)))
+    if ((rc = load_limit(doc, n[2], what, "a", "b", &o->tvu_a_m,
+                         &o->tvu_b, err)))
         return rc;
     snprintf(what, sizeof what, "%s.thu", path);
-    if ((rc = load_thu(doc, n[3], what, o, err)))
+    if ((rc = load_limit(doc, n[3], what, "constant", "depth_fraction",
+                         &o->thu_c_m, &o->thu_frac, err)))
         return rc;
     snprintf(what, sizeof what, "%s.feature", path);
     if ((rc = load_feature(doc, n[4], what, &o->feature, err)))
