@@ -10,6 +10,7 @@
 #include <sys/stat.h>
 
 #include "swathbudget/orders.h"
+#include "swathbudget/propagate.h"
 
 int cli_usage_error(const char *cmd, const char *fmt, ...)
 {
@@ -55,6 +56,19 @@ int cli_parse_format(const char *cmd, const char *arg, enum sb_format *out)
     if (sb_format_parse(arg, out) != SB_OK)
         return cli_usage_error(cmd, "--format: unknown format '%s' (expected "
                                     "table, csv or json)", arg);
+    return CLI_EXIT_OK;
+}
+
+int cli_parse_thu_rule(const char *cmd, const char *arg, int *out)
+{
+    if (strcmp(arg, "exact") == 0)
+        *out = SB_THU_EXACT;
+    else if (strcmp(arg, "s44") == 0)
+        *out = SB_THU_S44;
+    else
+        return cli_usage_error(cmd, "--thu-rule: unknown rule '%s' "
+                                    "(expected exact or s44)",
+                               arg);
     return CLI_EXIT_OK;
 }
 

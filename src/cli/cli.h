@@ -50,6 +50,8 @@ void cli_warn(const char *cmd, const char *fmt, ...)
 /* Option parsers.  On a bad value they print the one-line usage error
  * themselves and return CLI_EXIT_INPUT; on success CLI_EXIT_OK. */
 int cli_parse_format(const char *cmd, const char *arg, enum sb_format *out);
+/* --thu-rule: "exact" or "s44" (enum sb_thu_rule of propagate.h). */
+int cli_parse_thu_rule(const char *cmd, const char *arg, int *out);
 /* A finite number; lo/hi bound it (inclusive unless open_lo: lo < v). */
 int cli_parse_double(const char *cmd, const char *opt, const char *arg,
                      double lo, double hi, int open_lo, double *out);

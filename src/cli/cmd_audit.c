@@ -964,14 +964,9 @@ int cmd_audit(int argc, char **argv)
             break;
         case OPT_FAILURES: fail_path = optarg; break;
         case OPT_RULE:
-            if (strcmp(optarg, "exact") == 0)
-                thu_rule = SB_THU_EXACT;
-            else if (strcmp(optarg, "s44") == 0)
-                thu_rule = SB_THU_S44;
-            else
-                return cli_usage_error(CMD, "--thu-rule: unknown rule '%s' "
-                                            "(expected exact or s44)",
-                                       optarg);
+            if ((rc = cli_parse_thu_rule(CMD, optarg, &thu_rule)) !=
+                CLI_EXIT_OK)
+                return rc;
             break;
         case OPT_STRICT: strict = 1; break;
         case OPT_QUIET: run.quiet = 1; break;

@@ -503,14 +503,9 @@ int cmd_compare(int argc, char **argv)
             upgrade = optarg;
             break;
         case OPT_THU_RULE:
-            if (strcmp(optarg, "exact") == 0)
-                rule = SB_THU_EXACT;
-            else if (strcmp(optarg, "s44") == 0)
-                rule = SB_THU_S44;
-            else
-                return cli_usage_error(CMD, "--thu-rule: unknown rule '%s' "
-                                            "(expected exact or s44)",
-                                       optarg);
+            if ((rc = cli_parse_thu_rule(CMD, optarg, &rule)) !=
+                CLI_EXIT_OK)
+                return rc;
             break;
         case OPT_FORMAT:
             if ((rc = cli_parse_format(CMD, optarg, &fmt)) != CLI_EXIT_OK)

@@ -1032,14 +1032,9 @@ int cmd_report(int argc, char **argv)
             break;
         }
         case OPT_THU_RULE:
-            if (strcmp(optarg, "exact") == 0)
-                c->rule = SB_THU_EXACT;
-            else if (strcmp(optarg, "s44") == 0)
-                c->rule = SB_THU_S44;
-            else
-                return cli_usage_error(CMD, "--thu-rule: unknown rule '%s' "
-                                            "(expected exact or s44)",
-                                       optarg);
+            if ((rc = cli_parse_thu_rule(CMD, optarg, &c->rule)) !=
+                CLI_EXIT_OK)
+                return rc;
             break;
         case OPT_PLOT:
             for (kind = 0; kind < PLOT_COUNT; kind++)

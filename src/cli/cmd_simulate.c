@@ -170,14 +170,9 @@ int cmd_simulate(int argc, char **argv)
             break;
         case OPT_TPU: so.with_tpu = 1; break;
         case OPT_RULE:
-            if (strcmp(optarg, "exact") == 0)
-                so.thu_rule = SB_THU_EXACT;
-            else if (strcmp(optarg, "s44") == 0)
-                so.thu_rule = SB_THU_S44;
-            else
-                return cli_usage_error(CMD, "--thu-rule: unknown rule '%s' "
-                                            "(expected exact or s44)",
-                                       optarg);
+            if ((rc = cli_parse_thu_rule(CMD, optarg, &so.thu_rule)) !=
+                CLI_EXIT_OK)
+                return rc;
             break;
         case OPT_MAX:
             if ((rc = cli_parse_double(CMD, "--max-soundings", optarg, 1,
